@@ -1,0 +1,54 @@
+#!/usr/bin/env node
+// `npm start`: everything Rainprint needs on one machine, from a fresh clone.
+// Installs dependencies if missing, applies migrations, seeds the synthetic demo
+// once, builds, then runs the local stand-ins, the worker and the web app.
+import { readFileSync } from "node:fs";
+import path from "node:path";
+import { ensureDependencies, log, root, run } from "./lib/deps.mjs";
+
+ensureDependencies();
+
+const { ensureBuild } = await import("./lib/build.mjs");
+const { localEnv, serviceSpecs, startProcesses } = await import("./lib/services.mjs");
+
+const ports = {
+  app: Number(process.env.PORT || 3000),
+  mail: Number(process.env.MAIL_STANDIN_PORT || 4010),
+  stripe: Number(process.env.STRIPE_STANDIN_PORT || 4020),
+};
+const env = localEnv({ ports, databaseUrl: process.env.DATABASE_URL || "file:./data/rainprint.db" });
+
+log("applying migrations and seeding the synthetic demo data (first run only) …");
+if (run(path.join(root, "node_modules", ".bin", "tsx"), [path.join(root, "scripts", "setup.ts")], { env }) !== 0) {
+  process.exit(1);
+}
+ensureBuild();
+
+const services = await startProcesses(serviceSpecs({ ports }), { env });
+
+const accounts = JSON.parse(readFileSync(path.join(root, "db", "seed", "demo-accounts.json"), "utf8"));
+log("");
+log(`Rainprint is running at ${env.APP_URL}`);
+log(`mailbox of the e-mail stand-in: ${env.APP_URL}/dev/mailbox`);
+log("demo sign-ins (synthetic demo data):");
+for (const a of accounts.accounts) log(`  ${a.label.padEnd(28)} ${a.email.padEnd(36)} ${a.password}`);
+log("press Ctrl+C to stop");
+
+let stopping = false;
+async function shutdown() {
+  if (stopping) return;
+  stopping = true;
+  log("stopping …");
+  await services.stop();
+  process.exit(0);
+}
+process.on("SIGINT", shutdown);
+process.on("SIGTERM", shutdown);
+for (const c of services.children) {
+  c.on("exit", (code) => {
+    if (!stopping) {
+      log(`${c.name} stopped unexpectedly (exit ${code}); shutting down`);
+      shutdown();
+    }
+  });
+}
