@@ -26,7 +26,7 @@ export type {
 /**
  * Run every check on one sample. Results come in a fixed order (values, period, amount,
  * laboratory, interpretation) and include only findings; a clean sample gives [] or notes.
- * When the δ values are missing, in the wrong units, swapped or out of range, the checks
+ * When the δ values are missing, in the wrong units, swapped, possibly sign-less or out of range, the checks
  * that interpret them (evaporation, line-offset, spatial-outlier, station-outlier,
  * repeated values) are skipped.
  */

@@ -132,17 +132,22 @@ export function checkPeriod(s: QcSample, ctx: QcContext): { results: CheckResult
       );
     }
   }
-  // A gap since the previous stored period.
-  const before = stored.filter((q) => q.end <= start).sort((a, b) => b.end - a.end)[0];
-  const overlapsAny = stored.some((q) => Math.min(end, q.end) - Math.max(start, q.start) > 0);
-  if (before && !overlapsAny) {
+  // A gap since the previous period (stored, or earlier in this batch for the same station).
+  const batchPeriods = (ctx.otherBatchSamples ?? [])
+    .filter((o) => o && sameStation(s, o))
+    .map((o) => ({ start: day(o.startDate), end: day(o.endDate) }))
+    .filter((q): q is { start: number; end: number } => q.start !== null && q.end !== null && q.end > q.start);
+  const known = [...stored.map((q) => ({ start: q.start, end: q.end })), ...batchPeriods];
+  const before = known.filter((q) => q.end <= start).sort((a, b) => b.end - a.end)[0];
+  const overlapsAny = known.some((q) => Math.min(end, q.end) - Math.max(start, q.start) > 0);
+  if (stored.length && before && !overlapsAny) {
     const gap = start - before.end;
     if (gap > t("gapNoteDays") && gap <= 366) {
       out.push(
         result(
           "period",
           "note",
-          `There are ${gap} days between the previous stored sample (ending ${isoFromDay(before.end)}) and this one; ` +
+          `There are ${gap} days between the previous sample (ending ${isoFromDay(before.end)}) and this one; ` +
             "rain in that gap was not sampled. If that is right, nothing needs doing.",
           { ...values, gapDays: gap },
         ),

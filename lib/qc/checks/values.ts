@@ -16,8 +16,9 @@ function plausibleD(x: number): boolean {
 }
 
 /**
- * The value checks. `usable` is false when the δ values are missing, in the wrong units or
- * swapped — the checks that interpret the values are then skipped, since they would mislead.
+ * The value checks. `usable` is false when the δ values are missing, in the wrong units,
+ * swapped, possibly sign-less or out of range — the checks that interpret the values are then
+ * skipped, since they would mislead.
  */
 export function checkValues(s: QcSample): { results: CheckResult[]; usable: boolean } {
   const out: CheckResult[] = [];
@@ -97,6 +98,7 @@ export function checkValues(s: QcSample): { results: CheckResult[]; usable: bool
     return { results: out, usable: false };
   }
 
+  let usable = true;
   // sign: minus signs dropped
   if (x >= t("signMinD18OPermil") && y > 0 && dEntered < t("typicalDExcessMinPermil") && typicalD(d(-x, -y))) {
     out.push(
@@ -104,10 +106,12 @@ export function checkValues(s: QcSample): { results: CheckResult[]; usable: bool
         "sign",
         "warn",
         `δ18O ${fmt(x, 2)}‰ and δ2H ${fmt(y, 1)}‰ are both positive, which is rare for rain; with minus signs ` +
-          `(${fmt(-x, 2)}‰, ${fmt(-y, 1)}‰) they would be ordinary values. Check that no minus signs were lost.`,
+          `(${fmt(-x, 2)}‰, ${fmt(-y, 1)}‰) they would be ordinary values. Check that no minus signs were lost; ` +
+          "if the values are right, the water was strongly evaporated. Other isotope checks were skipped until this is settled.",
         { d18O: x, d2H: y, dExcessAsEntered: dEntered, dExcessIfNegated: d(-x, -y) },
       ),
     );
+    usable = false;
   }
 
   // range
@@ -132,7 +136,7 @@ export function checkValues(s: QcSample): { results: CheckResult[]; usable: bool
         },
       ),
     );
-    return { results: out, usable: false };
+    usable = false;
   }
-  return { results: out, usable: true };
+  return { results: out, usable };
 }
