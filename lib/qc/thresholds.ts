@@ -48,14 +48,14 @@ export const CHECK_THRESHOLDS = Object.freeze({
     value: 1.8e-3,
     unit: "ratio",
     check: "units",
-    source: "[pub] VSMOW ¹⁸O/¹⁶O = 2005.20·10⁻⁶ (IAEA sheet); natural precipitation lies within ±10% of it",
+    source: "[pub] VSMOW ¹⁸O/¹⁶O = 2005.20·10⁻⁶ (IAEA sheet); [trade] natural δ18O of −60…+10‰ keeps precipitation within about −6%/+1% of it",
   },
   ratio18OMax: { value: 2.1e-3, unit: "ratio", check: "units", source: "[pub] as above" },
   ratio2HMin: {
     value: 7e-5,
     unit: "ratio",
     check: "units",
-    source: "[pub] VSMOW ²H/¹H = 155.76·10⁻⁶ (IAEA sheet); natural precipitation lies within −55%/+10% of it",
+    source: "[pub] VSMOW ²H/¹H = 155.76·10⁻⁶ (IAEA sheet); [trade] natural δ2H of −480…+60‰ keeps precipitation within about −48%/+6% of it",
   },
   ratio2HMax: { value: 1.7e-4, unit: "ratio", check: "units", source: "[pub] as above" },
   signMinD18OPermil: {
@@ -170,7 +170,7 @@ export const CHECK_THRESHOLDS = Object.freeze({
   lineOffsetMinN: {
     value: 8,
     unit: "samples",
-    check: "line-offset",
+    check: "line-offset, history",
     source: "[trade] fewest samples behind a station line before it is used to judge a sample",
   },
   gmwlResidualMaxPermil: {
