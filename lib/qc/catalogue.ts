@@ -85,7 +85,7 @@ export const CHECK_CATALOGUE: Readonly<Record<CheckCode, CheckInfo>> = Object.fr
   "line-offset": {
     title: "Far from the water line",
     explanation:
-      "The sample lies unusually far from the station's own water line (in units of the line's scatter) or from the global meteoric water line, which can mean an analysis or transcription error.",
+      "The sample lies unusually far from the station's own water line (in units of the line's scatter) or from the global meteoric water line, which can mean an analysis or data-entry error.",
     severities: ["note", "warn"],
   },
   "spatial-outlier": {

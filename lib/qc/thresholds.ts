@@ -177,7 +177,7 @@ export const CHECK_THRESHOLDS = Object.freeze({
     value: 20,
     unit: "‰",
     check: "line-offset",
-    source: "[trade] a δ2H residual from the global line (δ2H = 8·δ18O + 10, Craig 1961) beyond ~20‰ suggests an analysis or transcription error",
+    source: "[trade] a δ2H residual from the global line (δ2H = 8·δ18O + 10, Craig 1961) beyond ~20‰ suggests an analysis or data-entry error",
   },
   spatialNoteZ: {
     value: 3,

@@ -114,7 +114,7 @@ export function checkLineOffset(v: Values, ctx: QcContext): CheckResult[] {
   if (Math.abs(residual) > t("gmwlResidualMaxPermil")) {
     severity = severity ? worse(severity, "warn") as "note" | "warn" : "warn";
     parts.push(
-      `Its δ2H is ${fmt(Math.abs(residual), 1)}‰ ${residual < 0 ? "below" : "above"} the global meteoric water line (δ2H = 8·δ18O + 10), more than the ${t("gmwlResidualMaxPermil")}‰ that usually points to an analysis or transcription error.`,
+      `Its δ2H is ${fmt(Math.abs(residual), 1)}‰ ${residual < 0 ? "below" : "above"} the global meteoric water line (δ2H = 8·δ18O + 10), more than the ${t("gmwlResidualMaxPermil")}‰ that usually points to an analysis or data-entry error.`,
     );
   }
   if (!severity) return [];
