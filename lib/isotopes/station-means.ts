@@ -96,7 +96,10 @@ export interface PeriodCoverage {
   monthsCounted: number;
   /** Samples with δ values and an amount that entered this mean. */
   samplesUsed: number;
-  /** Share of the counted months' recorded precipitation that has isotope values (0–1), or null. */
+  /**
+   * Share of the recorded precipitation that has isotope values (0–1), or null without rain:
+   * over every year of that calendar month for a monthly mean, over the counted years for the annual.
+   */
   sampledPrecipFraction: number | null;
   firstYear: number | null;
   lastYear: number | null;
@@ -299,7 +302,7 @@ export function aggregateStationMeans(
     if (used.length < rules.minYearsPerMonth) flags.unshift("too-few-years");
     if (list.length === 0) flags.unshift("no-data");
     const means = pooledMeans(used);
-    const usedPrecip = used.reduce((a, c) => a + c.precipMm, 0);
+    const listPrecip = list.reduce((a, c) => a + c.precipMm, 0);
     monthly.push({
       period: m,
       ...means,
@@ -310,7 +313,7 @@ export function aggregateStationMeans(
         yearsWithData: new Set(list.map((c) => c.year)).size,
         monthsCounted: used.length,
         samplesUsed: used.reduce((a, c) => a + c.samples - c.isotopeNoAmount, 0),
-        sampledPrecipFraction: usedPrecip > 0 ? used.reduce((a, c) => a + c.sampledPrecipMm, 0) / usedPrecip : null,
+        sampledPrecipFraction: listPrecip > 0 ? list.reduce((a, c) => a + c.sampledPrecipMm, 0) / listPrecip : null,
         firstYear: used.length ? used[0].year : null,
         lastYear: used.length ? used[used.length - 1].year : null,
         flags: dedupe(flags),

@@ -141,6 +141,7 @@ describe("station aggregation — monthly and annual amount-weighted means with 
     // the unsampled rain still counts in mean monthly precipitation
     expect(r.monthly[4].precipMm).toBeCloseTo(277, 10);
     expect(r.monthly[4].coverage.yearsCounted).toBe(2);
+    expect(r.monthly[4].coverage.sampledPrecipFraction).toBeCloseTo(2 / 3, 10); // May sampled in 2 of 3 equal years
   });
 
   it("weekly samples are pooled into the month of their midpoint; a sample is placed by its midpoint", () => {
