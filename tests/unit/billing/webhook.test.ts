@@ -3,7 +3,7 @@
 // handler → the subscriptions table → planFromSubscriptions.
 import Stripe from "stripe";
 import { count, eq } from "drizzle-orm";
-import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, beforeEach, describe, expect, it, vi } from "vitest";
 import { getDb } from "@/db";
 import { billingCustomers, reviewEvents, subscriptions, webhookEvents } from "@/db/schema";
 import { paidPlanForUser, subscriptionRowsForOrganization } from "@/lib/billing/account";
@@ -355,6 +355,8 @@ describe("delivery order and replays", () => {
     await h.control("/settings", { webhook_retry_delays_ms: [100] });
     let fail = true;
     const seen: string[] = [];
+    // The route logs the failure; keep the test output quiet.
+    const quiet = vi.spyOn(console, "error").mockImplementation(() => undefined);
     const restore = setBillingNoticeHandler((kind) => {
       if (fail && kind === "subscription-started") throw new Error("mail queue unavailable");
       seen.push(kind);
@@ -375,6 +377,7 @@ describe("delivery order and replays", () => {
       const rec = await getDb().select().from(webhookEvents).where(eq(webhookEvents.id, created.id)).get();
       expect(rec?.processedAt).toBeTruthy();
     } finally {
+      quiet.mockRestore();
       restore();
       setBillingNoticeHandler((kind, data) => {
         h.notices.push({ kind, data });
