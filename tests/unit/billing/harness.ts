@@ -122,6 +122,15 @@ export async function startHarness(): Promise<Harness> {
   };
 }
 
+/** Poll until `check` returns true (webhook retries run on timers); fails after `timeoutMs`. */
+export async function waitFor(check: () => Promise<boolean> | boolean, what: string, timeoutMs = 20_000): Promise<void> {
+  const start = Date.now();
+  while (!(await check())) {
+    if (Date.now() - start > timeoutMs) throw new Error(`timed out waiting for ${what}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+}
+
 let counter = 0;
 
 /** A person in the database (what the auth module will create in the real app). */

@@ -9,7 +9,7 @@ import { cataloguePrices, PLAN_CATALOGUE } from "@/lib/billing/plans";
 import { signatureHeader } from "@/scripts/standins/stripe/delivery";
 import { parseForm } from "@/scripts/standins/stripe/form";
 import { startStripeStandin } from "@/scripts/standins/stripe/server";
-import { API_KEY, getStripe, postForm, startHarness, WEBHOOK_SECRET, type Harness } from "./harness";
+import { API_KEY, getStripe, postForm, startHarness, waitFor, WEBHOOK_SECRET, type Harness } from "./harness";
 
 let h: Harness;
 let stripe: Stripe;
@@ -238,12 +238,13 @@ describe("webhook signatures", () => {
     const c = await stripe.customers.create({ email: "retry@example.test" });
     await h.settle();
     h.forceStatus.value = null;
-    await new Promise((r) => setTimeout(r, 300));
-    await h.settle();
-    const { data } = await h.control<{ data: { id: string; type: string; delivered: boolean; deliveries: { status: number }[] }[] }>(
-      "/events?type=customer.created",
-    );
-    const ev = data.find((e) => h.deliveries.some((d) => d.raw.includes(e.id) && d.raw.includes(c.id)))!;
+    type Ev = { id: string; type: string; delivered: boolean; deliveries: { status: number }[] };
+    const find = async () =>
+      (await h.control<{ data: Ev[] }>("/events?type=customer.created")).data.find((e) =>
+        h.deliveries.some((d) => d.raw.includes(e.id) && d.raw.includes(c.id)),
+      );
+    await waitFor(async () => (await find())?.delivered === true, "the retried delivery");
+    const ev = (await find())!;
     expect(ev.delivered).toBe(true);
     expect(ev.deliveries[0].status).toBe(503);
     expect(ev.deliveries.at(-1)!.status).toBe(200);
