@@ -3,6 +3,7 @@ import { eq } from "drizzle-orm";
 import { getDb } from "../index";
 import { memberships, organizations, users } from "../schema";
 import demo from "./demo-accounts.json";
+import { seedDemoData } from "./demo-data";
 
 export type SeedProfile = "full" | "test";
 
@@ -40,4 +41,6 @@ export async function seedDemo(_opts: { profile: SeedProfile }): Promise<void> {
     orgRow = await db.insert(organizations).values({ name: org.name, slug: org.slug, isDemo: true }).returning({ id: organizations.id }).get();
     await db.insert(memberships).values({ organizationId: orgRow.id, userId: ids.get(org.ownerKey)!, role: "owner" });
   }
+  // Stations, contributors, samples and queued batches of the synthetic demo scenario.
+  await seedDemoData({ profile: _opts.profile });
 }
