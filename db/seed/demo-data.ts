@@ -20,6 +20,8 @@ import {
   type DemoScenario,
   type DemoStation,
 } from "../../lib/demo";
+import { dExcess } from "../../lib/isotopes";
+import { makeDemoCheckSample } from "./demo-checks";
 import demoAccounts from "./demo-accounts.json";
 
 /** What a sample check returns, as the seed stores it (lib/qc's runChecks fits this). */
@@ -45,8 +47,11 @@ export type SeedCheckSample = (
 export interface SeedDemoDataOptions {
   profile: DemoProfile;
   seed?: number;
-  /** Run on every pending sample; without it `checks` stays [] (lib/qc plugs in here). */
-  checkSample?: SeedCheckSample;
+  /**
+   * Run on every pending sample. Default: lib/qc's runChecks with the intake's context
+   * (db/seed/demo-checks.ts); null leaves `checks` [] and `lcExcess` null.
+   */
+  checkSample?: SeedCheckSample | null;
 }
 
 export interface SeedDemoDataResult {
@@ -72,9 +77,9 @@ export function demoId(key: string): string {
   return `${x.slice(0, 8)}-${x.slice(8, 12)}-${x.slice(12, 16)}-${x.slice(16, 20)}-${x.slice(20, 32)}`;
 }
 
-/** d-excess d = δ2H − 8·δ18O — Dansgaard (1964), Tellus 16:436 [pub]. */
+/** d-excess d = δ2H − 8·δ18O — Dansgaard (1964), Tellus 16:436 [pub] (lib/isotopes), to 10⁻⁶ ‰. */
 function dExcessOf(d18O: number, d2H: number): number {
-  return Math.round((d2H - 8 * d18O) * 1e6) / 1e6;
+  return Math.round(dExcess(d18O, d2H) * 1e6) / 1e6;
 }
 
 const SEVERITY_RANK: Record<Severity, number> = { note: 1, warn: 2, fail: 3 };
@@ -194,11 +199,12 @@ export async function seedDemoData(opts: SeedDemoDataOptions): Promise<SeedDemoD
     history.get(s.stationCode)!.push(s);
   }
   const outcomes = new Map<string, SeedCheckOutcome>();
-  if (opts.checkSample) {
+  const checkSample = opts.checkSample === undefined ? makeDemoCheckSample() : opts.checkSample;
+  if (checkSample) {
     for (const s of scenario.samples) {
       if (s.status !== "pending") continue;
       const station = stationByCode.get(s.stationCode)!;
-      const outcome = await opts.checkSample(
+      const outcome = await checkSample(
         { ...s, dExcess: dExcessOf(s.d18O, s.d2H) },
         { station, history: history.get(s.stationCode) ?? [], scenario },
       );

@@ -31,13 +31,14 @@ export const DEMO_CONTRIBUTOR_OWNER = "demo-account:contributor";
 /** Isotope scale every demo sample reports. */
 export const DEMO_SCALE = "VSMOW-SLAP";
 
-/** Month index 0 = January 2019. Accepted history runs to index 89 (June 2026). */
+/** Month index 0 = January 2019. Accepted history runs to index 88 (May 2026). */
 const FIRST_YEAR = 2019;
-const LAST_ACCEPTED = 89;
-/** Months the queued (pending) batches cover: July–November 2026. */
-const PENDING_MONTHS = [90, 91, 92, 93, 94];
-/** First month kept by the test profile: July 2023 (three years of history). */
-const TEST_FIRST = 54;
+const LAST_ACCEPTED = 88;
+/** Months the queued (pending) batches cover: June–October 2026, submitted in November 2026. */
+const PENDING_MONTHS = [89, 90, 91, 92, 93];
+const QUEUED_FROM = "2026-11-03";
+/** First month kept by the test profile: June 2023 (three years of history). */
+const TEST_FIRST = 53;
 /** Accepted samples eligible as the original of a 'duplicate': 2025-01 onwards. */
 const DUPLICATE_FROM = 72;
 
@@ -278,8 +279,15 @@ function corrupt(kind: BadSampleKind, good: DemoSample, rng: Rng, nth: number, h
       bad.notes = nth === 0 ? "Re-run pending; instrument drift that week." : null;
       break;
     case "outlier": {
-      const shift = -9 - rng.uniform(0, 2);
-      bad.d18O = round(good.d18O + shift, 2);
+      // At least 9‰ lighter than this month's value and at a robust z below −6 in the
+      // station's record (modified z = 0.6745·(x − median)/MAD, Iglewicz & Hoaglin 1993 [mem]).
+      // (Over the months both profiles keep, so the sample is the same in each.)
+      const xs = history.filter((h) => h.startDate >= monthStart(TEST_FIRST)).map((h) => h.d18O).sort((a, b) => a - b);
+      const med = xs.length ? xs[Math.floor(xs.length / 2)] : good.d18O;
+      const mad = xs.length ? xs.map((x) => Math.abs(x - med)).sort((a, b) => a - b)[Math.floor(xs.length / 2)] : 1;
+      const target = Math.min(good.d18O - 9, med - (6 * mad) / 0.6745) - rng.uniform(0, 1.5);
+      const shift = target - good.d18O;
+      bad.d18O = round(target, 2);
       bad.d2H = round(good.d2H + 8 * shift, 1);
       break;
     }
@@ -297,9 +305,9 @@ export interface GenerateOptions {
 }
 
 /**
- * Generate the synthetic demo scenario. `full`: ~270 stations, January 2019 – June 2026
- * accepted plus queued batches for July–November 2026. `test`: the first quarter of each
- * region's stations (~85), July 2023 – June 2026, the same queued batches.
+ * Generate the synthetic demo scenario. `full`: ~270 stations, January 2019 – May 2026
+ * accepted plus queued batches for June–October 2026. `test`: the first quarter of each
+ * region's stations (~85), June 2023 – May 2026, the same queued batches.
  */
 export function generateDemoScenario(opts: GenerateOptions = {}): DemoScenario {
   const seed = opts.seed ?? DEFAULT_DEMO_SEED;
@@ -416,7 +424,7 @@ export function generateDemoScenario(opts: GenerateOptions = {}): DemoScenario {
     station.startDate = monthStart(Math.max(0, has.indexOf(true)));
     for (const year of byYear.keys()) {
       const br = Rng.derive(seed, `batch:${station.code}:${year}`);
-      const submittedOn = year < 2026 ? `${year + 1}-02-${pad(br.int(1, 27))}` : `2026-07-${pad(br.int(1, 20))}`;
+      const submittedOn = year < 2026 ? `${year + 1}-02-${pad(br.int(1, 27))}` : `2026-06-${pad(br.int(1, 20))}`;
       batches.push({
         key: `${station.code}:${year}`,
         ownerKey: station.ownerKey,
@@ -461,7 +469,7 @@ export function generateDemoScenario(opts: GenerateOptions = {}): DemoScenario {
     }
   }
   queued.forEach((q, i) => {
-    const submittedOn = addDays("2026-10-06", i * 6 + badRng.int(0, 4));
+    const submittedOn = addDays(QUEUED_FROM, i * 4 + badRng.int(0, 2));
     batches.push({
       key: q.plan.key,
       ownerKey: q.ownerKey,

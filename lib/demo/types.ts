@@ -33,7 +33,7 @@ export const BAD_SAMPLE_KINDS = [
   "amount-missing",
   /** Analytical uncertainty far above laboratory acceptance limits (0.3‰ / 2‰). */
   "imprecise",
-  /** On the meteoric line but ~9‰ more negative than the station and its neighbours. */
+  /** On the station's line but ≥ 9‰ lighter than that month and far below the station's record. */
   "outlier",
   /** δ2H mistyped by tens of per mil: far off the meteoric line. */
   "transcription",

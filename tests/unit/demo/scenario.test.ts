@@ -161,8 +161,8 @@ describe("stations", () => {
 
 describe("samples", () => {
   it("five or more years of monthly samples in the full profile, three in the test profile", () => {
-    expect(full.meta).toMatchObject({ firstMonth: "2019-01", lastAcceptedMonth: "2026-06", label: "synthetic demo data" });
-    expect(test.meta.firstMonth).toBe("2023-07");
+    expect(full.meta).toMatchObject({ firstMonth: "2019-01", lastAcceptedMonth: "2026-05", label: "synthetic demo data" });
+    expect(test.meta.firstMonth).toBe("2023-06");
     expect(full.samples.length).toBeGreaterThan(15_000);
     expect(test.samples.length).toBeGreaterThan(1_500);
     const perStation = full.stations.map((s) => full.samples.filter((x) => x.stationCode === s.code && x.status === "accepted").length);

@@ -1,5 +1,6 @@
-// The seed's check hook (where lib/qc's runChecks plugs in) and its behaviour without
-// the demo accounts. A fresh temporary database for this file (tests/unit/setup.ts).
+// The seed's check hook (a custom checker instead of the default lib/qc one; null for
+// none) and its behaviour without the demo accounts. A fresh temporary database for this
+// file (tests/unit/setup.ts).
 import { eq, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDb, getDb } from "@/db";

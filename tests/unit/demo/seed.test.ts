@@ -5,7 +5,7 @@ import { closeDb, getDb } from "@/db";
 import { migrateDb } from "@/db/migrate";
 import { seedDemo } from "@/db/seed";
 import demoAccounts from "@/db/seed/demo-accounts.json";
-import { seedDemoData } from "@/db/seed/demo-data";
+import { demoId, seedDemoData } from "@/db/seed/demo-data";
 import { batches, reviewEvents, samples, stations, users } from "@/db/schema";
 import { generateDemoScenario } from "@/lib/demo";
 
@@ -83,15 +83,32 @@ describe("seeding the demo (test profile)", () => {
     }
   });
 
-  it("stores d-excess = δ2H − 8·δ18O (Dansgaard 1964 [pub]) and leaves checks empty without a checker", async () => {
+  it("stores d-excess = δ2H − 8·δ18O (Dansgaard 1964 [pub]) and sample counts per batch", async () => {
     const rows = await getDb().select().from(samples);
-    for (const s of rows) {
-      expect(s.dExcess).toBeCloseTo(s.d2H - 8 * s.d18O, 6);
-      expect(s.checks).toEqual([]);
-      expect(s.lcExcess).toBeNull();
-    }
+    for (const s of rows) expect(s.dExcess).toBeCloseTo(s.d2H - 8 * s.d18O, 6);
     const batchRows = await getDb().select().from(batches);
     for (const b of batchRows) expect(b.sampleCount).toBe(rows.filter((s) => s.batchId === b.id).length);
+  });
+
+  it("runs lib/qc's checks on the pending samples: every bad one is flagged, the queue sorts on it", async () => {
+    const db = getDb();
+    const pending = await db.select().from(samples).where(eq(samples.status, "pending"));
+    const byKey = new Map(scenario.samples.map((s) => [demoId(`sample:${s.key}`), s]));
+    for (const row of pending) {
+      const s = byKey.get(row.id)!;
+      if (s.badKind) {
+        expect(row.checks.length, s.key).toBeGreaterThan(0);
+        expect(row.worstSeverity, s.key).not.toBeNull();
+      } else {
+        expect(row.worstSeverity === "fail", s.key).toBe(false);
+        expect(row.lcExcess, s.key).not.toBeNull();
+      }
+    }
+    const queued = await db.select().from(batches).where(eq(batches.status, "queued"));
+    expect(queued.filter((b) => b.worstSeverity === "fail").length).toBeGreaterThanOrEqual(5);
+    // Accepted history is stored as decided, without check results.
+    const accepted = await db.select().from(samples).where(eq(samples.status, "accepted")).limit(50);
+    for (const row of accepted) expect([row.checks, row.worstSeverity, row.lcExcess]).toEqual([[], null, null]);
   });
 
   it("a second run inserts nothing", async () => {
