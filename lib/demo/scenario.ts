@@ -291,7 +291,7 @@ function corrupt(kind: BadSampleKind, good: DemoSample, rng: Rng, nth: number, h
       bad.d2H = round(good.d2H + 8 * shift, 1);
       break;
     }
-    case "transcription":
+    case "mistyped":
       bad.d2H = round(good.d2H + (nth === 0 ? -40 : 45) + rng.uniform(-3, 3), 1);
       break;
   }

@@ -36,7 +36,7 @@ export const BAD_SAMPLE_KINDS = [
   /** On the station's line but ≥ 9‰ lighter than that month and far below the station's record. */
   "outlier",
   /** δ2H mistyped by tens of per mil: far off the meteoric line. */
-  "transcription",
+  "mistyped",
 ] as const;
 export type BadSampleKind = (typeof BAD_SAMPLE_KINDS)[number];
 

@@ -19,7 +19,7 @@ const EXPECTED: Record<BadSampleKind, { code: string; severities: string[] }> = 
   "amount-missing": { code: "amount-missing", severities: ["warn"] },
   imprecise: { code: "precision", severities: ["note", "warn"] },
   outlier: { code: "station-outlier", severities: ["note", "warn"] },
-  transcription: { code: "line-offset", severities: ["note", "warn"] },
+  mistyped: { code: "line-offset", severities: ["note", "warn"] },
 };
 
 describe("lib/qc trips on every kind of deliberately bad demo sample", () => {

@@ -334,7 +334,7 @@ describe("deliberately bad samples", () => {
           expect(Math.abs(dx(s) - mean(history.map(dx))), why).toBeLessThan(8);
           break;
         }
-        case "transcription":
+        case "mistyped":
           expect(Math.abs(s.d2H - (8 * s.d18O + 10)), why).toBeGreaterThan(20); // > 20‰ off the GMWL [trade]
           break;
         default:
