@@ -5,6 +5,8 @@ const nextConfig = {
   // Native / large server-only packages stay outside the server bundle.
   serverExternalPackages: ["@libsql/client", "libsql", "geotiff", "pngjs"],
   experimental: {
+    // forbidden() renders app/forbidden.tsx with status 403 (used by requirePageViewer).
+    authInterrupts: true,
     // Server actions carry CSV uploads; the intake states its own limits and
     // checks them again on the server.
     serverActions: { bodySizeLimit: "60mb" },

@@ -16,10 +16,14 @@ const ports = {
   mail: Number(process.env.MAIL_STANDIN_PORT || 4010),
   stripe: Number(process.env.STRIPE_STANDIN_PORT || 4020),
 };
-const env = localEnv({ ports, databaseUrl: process.env.DATABASE_URL || "file:./data/rainprint.db" });
+const env = {
+  ...localEnv({ ports, databaseUrl: process.env.DATABASE_URL || "file:./data/rainprint.db" }),
+  // Keep the stand-in's mailbox across restarts of `npm start`.
+  MAIL_STANDIN_STORE: path.join(root, "data", "mailbox.json"),
+};
 
 log("applying migrations and seeding the synthetic demo data (first run only) …");
-if (run(path.join(root, "node_modules", ".bin", "tsx"), [path.join(root, "scripts", "setup.ts")], { env }) !== 0) {
+if (run(path.join(root, "node_modules", ".bin", "tsx"), ["--conditions=react-server", path.join(root, "scripts", "setup.ts")], { env }) !== 0) {
   process.exit(1);
 }
 ensureBuild();

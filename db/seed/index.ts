@@ -9,9 +9,27 @@ export type SeedProfile = "full" | "test";
 
 /**
  * Seed the synthetic demo data: demo accounts (one per role), the demo
- * Institution organization. Idempotent: existing rows are left alone.
+ * Institution organization, then the stations and samples. Idempotent:
+ * existing rows are left alone.
  */
-export async function seedDemo(_opts: { profile: SeedProfile }): Promise<void> {
+export async function seedDemo(opts: { profile: SeedProfile }): Promise<void> {
+  const accountIds = await seedAccounts();
+  await seedStationsAndSamples({ profile: opts.profile, accountIds });
+}
+
+/**
+ * Synthetic stations, batches and samples (the generator lives in lib/demo;
+ * db/seed/demo-data.ts writes them). `accountIds` maps demo-accounts.json keys to user ids,
+ * e.g. accountIds.get("contributor"). "test" is the small profile the
+ * end-to-end tests use; "full" is what `npm start` shows.
+ */
+async function seedStationsAndSamples(args: { profile: SeedProfile; accountIds: Map<string, string> }): Promise<void> {
+  // Stations, contributors, samples and queued batches of the synthetic demo scenario (lib/demo).
+  await seedDemoData({ profile: args.profile });
+}
+
+/** Demo accounts (one per role) and the demo Institution organisation; returns key → user id. */
+async function seedAccounts(): Promise<Map<string, string>> {
   const db = getDb();
   const ids = new Map<string, string>();
   for (const a of demo.accounts) {
@@ -41,6 +59,5 @@ export async function seedDemo(_opts: { profile: SeedProfile }): Promise<void> {
     orgRow = await db.insert(organizations).values({ name: org.name, slug: org.slug, isDemo: true }).returning({ id: organizations.id }).get();
     await db.insert(memberships).values({ organizationId: orgRow.id, userId: ids.get(org.ownerKey)!, role: "owner" });
   }
-  // Stations, contributors, samples and queued batches of the synthetic demo scenario.
-  await seedDemoData({ profile: _opts.profile });
+  return ids;
 }

@@ -140,7 +140,8 @@ export function serviceSpecs({ ports, withApp = true }) {
   if (existsSync(stripe))
     specs.push({ name: "payments stand-in", cmd: tsx, args: [stripe], health: `http://127.0.0.1:${ports.stripe}/health` });
   const worker = path.join(root, "scripts", "worker.ts");
-  if (existsSync(worker)) specs.push({ name: "worker", cmd: tsx, args: [worker] });
+  // The react-server condition lets the worker load modules marked `import "server-only"`.
+  if (existsSync(worker)) specs.push({ name: "worker", cmd: tsx, args: ["--conditions=react-server", worker] });
   if (withApp)
     specs.push({
       name: "web app",

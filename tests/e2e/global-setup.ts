@@ -26,7 +26,7 @@ export default async function setup(project: TestProject) {
   const databaseUrl = `file:${path.join(dir, "e2e.db")}`;
   const env = { ...localEnv({ ports, databaseUrl, test: true }), RAINPRINT_SEED_PROFILE: "test" } as Record<string, string>;
 
-  const status = run(path.resolve("node_modules/.bin/tsx"), [path.resolve("scripts/setup.ts")], { env });
+  const status = run(path.resolve("node_modules/.bin/tsx"), ["--conditions=react-server", path.resolve("scripts/setup.ts")], { env });
   if (status !== 0) throw new Error("scripts/setup.ts failed for the end-to-end database");
 
   const logDir = path.resolve("test-results", "logs");

@@ -1,0 +1,27 @@
+import { accountExists } from "./account-exists";
+import { magicLink } from "./magic-link";
+import { passwordReset } from "./password-reset";
+import { roleChanged } from "./role-changed";
+import { verifyEmail } from "./verify-email";
+import type { RenderedMail } from "./layout";
+
+// Every e-mail template, by name. A template is a typed function from its data
+// to { subject, html, text }. To add one: write `templates/<name>.ts` and add a
+// line here; `queueMail({ template: "<name>", data })` is then type-checked.
+export const templates = {
+  "verify-email": verifyEmail,
+  "magic-link": magicLink,
+  "password-reset": passwordReset,
+  "role-changed": roleChanged,
+  "account-exists": accountExists,
+} satisfies Record<string, (data: never) => RenderedMail>;
+
+export type TemplateName = keyof typeof templates;
+export type TemplateData<K extends TemplateName> = Parameters<(typeof templates)[K]>[0];
+
+export function renderTemplate<K extends TemplateName>(name: K, data: TemplateData<K>): RenderedMail {
+  const fn = templates[name] as (d: TemplateData<K>) => RenderedMail;
+  return fn(data);
+}
+
+export type { RenderedMail };
