@@ -32,12 +32,22 @@ export function clientAddress(headers: Headers | Record<string, string | string[
   return xff || get("x-real-ip") || "unknown";
 }
 
-/** The adapter, created on first use so importing this module opens no database. */
+/**
+ * The adapter, created on first use so importing this module opens no
+ * database. next-auth copies the adapter's methods (Object.keys), so the
+ * proxy also reports the real adapter's keys.
+ */
 function lazyAdapter(): Adapter {
   let made: Adapter | undefined;
+  const real = () => (made ??= adapter());
   return new Proxy({} as Adapter, {
-    get: (_target, prop) => (made ??= adapter())[prop as keyof Adapter],
-    has: (_target, prop) => prop in (made ??= adapter()),
+    get: (_target, prop) => Reflect.get(real(), prop),
+    has: (_target, prop) => Reflect.has(real(), prop),
+    ownKeys: () => Reflect.ownKeys(real()),
+    getOwnPropertyDescriptor: (_target, prop) => {
+      const d = Reflect.getOwnPropertyDescriptor(real(), prop);
+      return d ? { ...d, configurable: true } : undefined;
+    },
   });
 }
 

@@ -1,7 +1,7 @@
 import "server-only";
 import type { z } from "zod";
 import { checkViewer, getViewer, type Requirement, type Viewer } from "@/lib/auth/guard";
-import { toProblemResponse } from "@/lib/errors";
+import { errors, toProblemResponse } from "@/lib/errors";
 import { DEFAULT_JSON_LIMIT_BYTES, readStructuredBody } from "./body";
 
 // The shape of every route handler:
@@ -48,6 +48,7 @@ export function route<A extends Auth, B extends z.ZodType | undefined = undefine
   return async (req, ctx) => {
     const instance = new URL(req.url).pathname;
     try {
+      refuseCrossSite(req);
       const viewer = await getViewer();
       if (spec.auth !== "public") checkViewer(viewer, spec.auth);
       const raw = spec.body ? await readStructuredBody(req, spec.maxBodyBytes ?? DEFAULT_JSON_LIMIT_BYTES) : undefined;
@@ -59,6 +60,31 @@ export function route<A extends Auth, B extends z.ZodType | undefined = undefine
       return toProblemResponse(e, instance);
     }
   };
+}
+
+const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
+
+/**
+ * Refuse state-changing requests sent by another site's page (the browser
+ * names the page's origin in `Origin`). Session cookies are SameSite=Lax as
+ * well; this is the second lock. Requests without Origin (scripts, API
+ * clients) are not affected.
+ */
+function refuseCrossSite(req: Request): void {
+  if (SAFE_METHODS.has(req.method)) return;
+  const origin = req.headers.get("origin");
+  if (!origin || origin === "null") {
+    if (origin === "null") throw errors.forbidden("Requests from sandboxed or opaque origins are refused.");
+    return;
+  }
+  const host = req.headers.get("x-forwarded-host") ?? req.headers.get("host");
+  let originHost: string;
+  try {
+    originHost = new URL(origin).host;
+  } catch {
+    throw errors.forbidden("The request's Origin header is not valid.");
+  }
+  if (host && originHost !== host) throw errors.forbidden("Requests from other sites are refused.");
 }
 
 /** 202 with a message, for requests whose outcome is an e-mail. */

@@ -1,0 +1,103 @@
+// The authorization policy: for every page and route handler under app/,
+// an example request and what each kind of visitor must get back. The matrix
+// test (authorization-matrix.test.ts) discovers the files from the file
+// system and fails when one has no entry here, or when any outcome differs.
+//
+// To add a route: add one entry (or one per method) with a rule below.
+// To add a plan dimension (billing): add principals such as
+//   researcher: { account: "researcher", role: "contributor", plan: "researcher" }
+// to PRINCIPALS and a `plans(...)` rule; entries built from rules get the new
+// column without being edited.
+
+import type { Plan, Role } from "../../db/schema";
+import type { DemoKey } from "./helpers/accounts";
+
+/** Who asks: anonymous, or a demo account with the role and plan it is expected to have. */
+export const PRINCIPALS = {
+  anonymous: null,
+  contributor: { account: "contributor", role: "contributor", plan: "open" },
+  moderator: { account: "moderator", role: "moderator", plan: "open" },
+  admin: { account: "admin", role: "admin", plan: "open" },
+} as const satisfies Record<string, { account: DemoKey; role: Role; plan: Plan } | null>;
+
+export type Principal = keyof typeof PRINCIPALS;
+
+/** An HTTP status, or a redirect whose Location path starts with `redirect`. */
+export type Outcome = number | { redirect: string };
+export const SIGN_IN: Outcome = { redirect: "/sign-in" };
+
+export type Expectations = Record<Principal, Outcome>;
+
+export type PolicyEntry = {
+  /** Route file, relative to the repository root. */
+  file: string;
+  /** Example URL (dynamic segments filled in). */
+  url: string;
+  method?: "GET" | "POST" | "PATCH" | "PUT" | "DELETE";
+  /** JSON body to send (chosen so no test changes state). */
+  body?: unknown;
+  expect: Expectations;
+  note?: string;
+};
+
+type Who = { role: Role; plan: Plan } | null;
+const each = (f: (who: Who) => Outcome): Expectations =>
+  Object.fromEntries(Object.entries(PRINCIPALS).map(([k, v]) => [k, f(v)])) as Expectations;
+
+// Rules for pages (signed-out visitors are sent to sign-in) …
+export const page = {
+  open: (): Expectations => each(() => 200),
+  signedIn: (): Expectations => each((w) => (w ? 200 : SIGN_IN)),
+  roles: (roles: readonly Role[]): Expectations => each((w) => (!w ? SIGN_IN : roles.includes(w.role) ? 200 : 403)),
+  /** Only for visitors who are signed out; signed-in visitors are sent on to `to`. */
+  signedOutOnly: (to: string): Expectations => each((w) => (w ? { redirect: to } : 200)),
+};
+
+// … and for route handlers (signed-out callers get 401).
+export const api = {
+  open: (status = 200): Expectations => each(() => status),
+  signedIn: (status = 200): Expectations => each((w) => (w ? status : 401)),
+  roles: (roles: readonly Role[], status = 200): Expectations => each((w) => (!w ? 401 : roles.includes(w.role) ? status : 403)),
+};
+
+export const POLICY: PolicyEntry[] = [
+  // ── public pages ──
+  { file: "app/page.tsx", url: "/", expect: page.open() },
+  { file: "app/sign-in/page.tsx", url: "/sign-in", expect: page.signedOutOnly("/account") },
+  { file: "app/sign-in/check-email/page.tsx", url: "/sign-in/check-email", expect: page.open() },
+  { file: "app/sign-up/page.tsx", url: "/sign-up", expect: page.open() },
+  { file: "app/sign-out/page.tsx", url: "/sign-out", expect: page.open() },
+  { file: "app/verify/page.tsx", url: "/verify", expect: page.open() },
+  { file: "app/verify/resend/page.tsx", url: "/verify/resend", expect: page.open() },
+  { file: "app/reset-password/page.tsx", url: "/reset-password", expect: page.open() },
+  { file: "app/reset-password/new/page.tsx", url: "/reset-password/new?token=not-a-real-token-000000", expect: page.open() },
+  { file: "app/problems/[type]/page.tsx", url: "/problems/forbidden", expect: page.open() },
+  { file: "app/dev/mailbox/page.tsx", url: "/dev/mailbox", expect: page.open(), note: "present while the mail stand-in is configured (always in tests)" },
+
+  // ── signed-in pages ──
+  { file: "app/account/page.tsx", url: "/account", expect: page.signedIn() },
+  {
+    file: "app/organizations/[slug]/page.tsx",
+    url: "/organizations/lakeshore-basin",
+    expect: { ...page.roles(["admin"]), contributor: 404, moderator: 404 },
+    note: "members and admins only; others get 404 so the organisation's existence is not revealed",
+  },
+  { file: "app/jobs/page.tsx", url: "/jobs", expect: page.roles(["moderator", "admin"]) },
+  { file: "app/admin/users/page.tsx", url: "/admin/users", expect: page.roles(["admin"]) },
+
+  // ── route handlers ──
+  { file: "app/api/health/route.ts", url: "/api/health", expect: api.open() },
+  { file: "app/api/auth/[...nextauth]/route.ts", url: "/api/auth/session", expect: api.open() },
+  { file: "app/api/auth/[...nextauth]/route.ts", url: "/api/auth/signin/email", method: "POST", body: {}, expect: api.open(302), note: "without a CSRF token next-auth redirects back to sign-in" },
+  { file: "app/api/account/sign-up/route.ts", url: "/api/account/sign-up", method: "POST", body: {}, expect: api.open(400) },
+  { file: "app/api/account/verify/route.ts", url: "/api/account/verify", method: "POST", body: {}, expect: api.open(400) },
+  { file: "app/api/account/resend-verification/route.ts", url: "/api/account/resend-verification", method: "POST", body: {}, expect: api.open(400) },
+  { file: "app/api/account/password-reset/route.ts", url: "/api/account/password-reset", method: "POST", body: {}, expect: api.open(400) },
+  { file: "app/api/account/password-reset/confirm/route.ts", url: "/api/account/password-reset/confirm", method: "POST", body: {}, expect: api.open(400) },
+  { file: "app/api/account/password/route.ts", url: "/api/account/password", method: "POST", body: {}, expect: api.signedIn(400) },
+  { file: "app/api/account/profile/route.ts", url: "/api/account/profile", method: "PATCH", body: {}, expect: api.signedIn(400) },
+  { file: "app/api/me/route.ts", url: "/api/me", expect: api.signedIn(200) },
+  { file: "app/api/admin/users/route.ts", url: "/api/admin/users", expect: api.roles(["admin"]) },
+  { file: "app/api/admin/users/[id]/route.ts", url: "/api/admin/users/no-such-user", method: "PATCH", body: {}, expect: api.roles(["admin"], 400) },
+  { file: "app/api/jobs/[id]/cancel/route.ts", url: "/api/jobs/no-such-job/cancel", method: "POST", expect: api.roles(["moderator", "admin"], 404) },
+];
