@@ -1,4 +1,4 @@
-import type { Plan, Role } from "@/db/schema";
+import type { Plan, Role } from "@/lib/auth/kinds";
 
 // The one list of navigation items. Each item says who sees it; the header
 // shows the items the current viewer passes. To add a page to the navigation,

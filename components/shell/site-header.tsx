@@ -1,5 +1,5 @@
 import Link from "next/link";
-import type { Plan, Role } from "@/db/schema";
+import type { Plan, Role } from "@/lib/auth/kinds";
 import { navFor } from "./nav-items";
 import { SignOutButton } from "./sign-out-button";
 
