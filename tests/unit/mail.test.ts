@@ -9,6 +9,8 @@ import { resetEnvCache } from "@/lib/env";
 import { claimJob, runClaimedJob } from "@/lib/jobs/runner";
 import { jobRegistry } from "@/lib/jobs/registry";
 import { queueMail } from "@/lib/mail";
+import { usingMailStandin } from "@/lib/mail/client";
+import { readStandinMailbox } from "@/lib/mail/standin";
 import { renderTemplate, templates } from "@/lib/mail/templates";
 import { freshDb } from "./helpers/db";
 
@@ -47,6 +49,22 @@ beforeAll(async () => {
 
 afterAll(() => {
   standin?.kill("SIGTERM");
+});
+
+describe("the /dev/mailbox source", () => {
+  it("is absent (null → 404 page) when RESEND_BASE_URL is unset, i.e. with real Resend", async () => {
+    const saved = process.env.RESEND_BASE_URL;
+    delete process.env.RESEND_BASE_URL;
+    resetEnvCache();
+    try {
+      expect(await readStandinMailbox()).toBeNull();
+      expect(usingMailStandin()).toBe(false);
+    } finally {
+      process.env.RESEND_BASE_URL = saved;
+      resetEnvCache();
+    }
+    expect(Array.isArray(await readStandinMailbox())).toBe(true);
+  });
 });
 
 describe("templates", () => {
