@@ -1,10 +1,11 @@
 import "server-only";
-import { and, asc, eq, inArray } from "drizzle-orm";
+import { asc, eq } from "drizzle-orm";
 import { getDb } from "@/db";
-import { memberships, organizations, subscriptions, users } from "@/db/schema";
+import { memberships, organizations, users } from "@/db/schema";
 import type { Viewer } from "@/lib/auth/guard";
 import { errors } from "@/lib/errors";
-import { ACTIVE_SUBSCRIPTION_STATUSES } from "@/lib/auth/plan";
+import { subscriptionRowsForOrganization } from "@/lib/billing/account";
+import { planFromSubscriptions } from "@/lib/billing/state";
 
 // Organisations and their members. Seats and invitations come with billing.
 
@@ -15,7 +16,8 @@ export type OrganizationView = {
   isDemo: boolean;
   viewerRole: "owner" | "member" | "admin";
   members: { id: string; name: string | null; email: string; role: "owner" | "member" }[];
-  subscription: { plan: string; status: string; seats: number; currentPeriodEnd: Date | null } | null;
+  /** The subscription that applies now (lib/billing decides), or null. */
+  subscription: { plan: string; status: string; seats: number; standing: string } | null;
 };
 
 /** An organisation as its members (and admins) see it; 404 for everyone else, so its existence is not revealed. */
@@ -31,11 +33,8 @@ export async function getOrganizationForViewer(viewer: Viewer, slug: string): Pr
     .where(eq(memberships.organizationId, org.id))
     .orderBy(asc(memberships.role), asc(users.name))
     .all();
-  const sub = await db
-    .select({ plan: subscriptions.plan, status: subscriptions.status, seats: subscriptions.seats, currentPeriodEnd: subscriptions.currentPeriodEnd })
-    .from(subscriptions)
-    .where(and(eq(subscriptions.organizationId, org.id), inArray(subscriptions.status, [...ACTIVE_SUBSCRIPTION_STATUSES, "past_due"])))
-    .get();
+  const paid = planFromSubscriptions(await subscriptionRowsForOrganization(org.id), new Date());
+  const sub = paid.subscription ? { plan: paid.plan, status: paid.subscription.status, seats: paid.subscription.seats, standing: paid.standing } : null;
   return {
     id: org.id,
     name: org.name,
@@ -43,6 +42,6 @@ export async function getOrganizationForViewer(viewer: Viewer, slug: string): Pr
     isDemo: org.isDemo,
     viewerRole: membership?.role ?? "admin",
     members,
-    subscription: sub ?? null,
+    subscription: sub,
   };
 }

@@ -1,55 +1,34 @@
 import "server-only";
-import { and, eq, gte, inArray, isNotNull, or, gt } from "drizzle-orm";
+import { and, eq, gte } from "drizzle-orm";
 import { getDb } from "@/db";
-import { batches, memberships, samples, subscriptions, type Plan } from "@/db/schema";
+import { batches, samples, type Plan } from "@/db/schema";
+import { paidPlanForUser } from "@/lib/billing/account";
+import { applyContributorPerk } from "@/lib/billing/state";
 
 // Plan resolution, read from the database on every call:
-//   Institution — member of an organisation with an active institution subscription;
-//   Researcher  — an active individual subscription, or the contributor perk
+//   Institution — member of an organisation with an institution subscription that applies;
+//   Researcher  — an individual subscription that applies, or the contributor perk
 //                 (accepted samples decided within the last 12 months);
 //   Open        — everyone else.
+// Which subscription rows "apply" (active, trialing, set to cancel but not yet
+// ended, past due within the grace period) is decided by lib/billing/state.ts.
 
 /** Why a viewer has their plan (shown on the account page, used by billing). */
 export type PlanSource = "organization" | "subscription" | "contributor-perk" | "none";
 
 export type PlanResolution = { plan: Plan; planSource: PlanSource; organizationId?: string };
 
-/** Stripe subscription statuses that grant access. `past_due` keeps access until `graceUntil`. */
-export const ACTIVE_SUBSCRIPTION_STATUSES = ["active", "trialing"] as const;
-
 /** How long accepted data keeps the contributor perk alive. */
 export const CONTRIBUTOR_PERK_DAYS = 365;
 
-function activeSubscription(now: Date) {
-  return or(
-    inArray(subscriptions.status, [...ACTIVE_SUBSCRIPTION_STATUSES]),
-    and(eq(subscriptions.status, "past_due"), isNotNull(subscriptions.graceUntil), gt(subscriptions.graceUntil, now)),
-  );
-}
-
 export async function resolvePlan(userId: string, now: Date = new Date()): Promise<PlanResolution> {
-  const db = getDb();
-
-  const orgSub = await db
-    .select({ organizationId: subscriptions.organizationId })
-    .from(subscriptions)
-    .innerJoin(memberships, eq(memberships.organizationId, subscriptions.organizationId))
-    .where(and(eq(memberships.userId, userId), eq(subscriptions.plan, "institution"), activeSubscription(now)))
-    .limit(1)
-    .get();
-  if (orgSub?.organizationId) return { plan: "institution", planSource: "organization", organizationId: orgSub.organizationId };
-
-  const ownSub = await db
-    .select({ id: subscriptions.id })
-    .from(subscriptions)
-    .where(and(eq(subscriptions.userId, userId), eq(subscriptions.plan, "researcher"), activeSubscription(now)))
-    .limit(1)
-    .get();
-  if (ownSub) return { plan: "researcher", planSource: "subscription" };
-
-  if (await hasContributorPerk(userId, now)) return { plan: "researcher", planSource: "contributor-perk" };
-
-  return { plan: "open", planSource: "none" };
+  const paid = await paidPlanForUser(userId, now);
+  const perk = paid.plan === "open" ? await hasContributorPerk(userId, now) : false;
+  const plan = applyContributorPerk(paid.plan, perk);
+  if (plan !== paid.plan) return { plan, planSource: "contributor-perk" };
+  if (!paid.subscription) return { plan, planSource: "none" };
+  if (paid.subscription.organizationId) return { plan, planSource: "organization", organizationId: paid.subscription.organizationId };
+  return { plan, planSource: "subscription" };
 }
 
 /** True when the user contributed samples that were accepted within the last CONTRIBUTOR_PERK_DAYS. */

@@ -4,6 +4,7 @@
 //
 // Settings (this program's own, not the app's):
 //   STRIPE_STANDIN_PORT         port to listen on (required)
+//   STRIPE_STANDIN_HOST         interface (default 127.0.0.1; containers set 0.0.0.0)
 //   STRIPE_STANDIN_WEBHOOK_URL  where signed events are POSTed (unset: no delivery)
 //   STRIPE_WEBHOOK_SECRET       signing secret shared with the app
 //   STRIPE_SECRET_KEY           the key the SDK must present
@@ -18,6 +19,7 @@ import { startStripeStandin } from "./stripe/server";
 const settings = z
   .object({
     STRIPE_STANDIN_PORT: z.coerce.number().int().min(1).max(65_535),
+    STRIPE_STANDIN_HOST: z.string().min(1).default("127.0.0.1"),
     STRIPE_STANDIN_WEBHOOK_URL: z.url().optional(),
     STRIPE_WEBHOOK_SECRET: z.string().min(1).default("whsec_local_standin_secret"),
     STRIPE_SECRET_KEY: z.string().min(1).default("sk_test_local_standin"),
@@ -42,6 +44,7 @@ const stateSetting = s.STRIPE_STANDIN_STATE ?? (testing ? "memory" : "data/strip
 // No top-level await: tsx runs this file as CommonJS.
 void startStripeStandin({
   port: s.STRIPE_STANDIN_PORT,
+  host: s.STRIPE_STANDIN_HOST,
   publicUrl: s.STRIPE_STANDIN_PUBLIC_URL,
   webhookUrl: s.STRIPE_STANDIN_WEBHOOK_URL ?? null,
   webhookSecret: s.STRIPE_WEBHOOK_SECRET,

@@ -99,5 +99,13 @@ export const POLICY: PolicyEntry[] = [
   { file: "app/api/me/route.ts", url: "/api/me", expect: api.signedIn(200) },
   { file: "app/api/admin/users/route.ts", url: "/api/admin/users", expect: api.roles(["admin"]) },
   { file: "app/api/admin/users/[id]/route.ts", url: "/api/admin/users/no-such-user", method: "PATCH", body: {}, expect: api.roles(["admin"], 400) },
+  {
+    file: "app/api/stripe/webhook/route.ts",
+    url: "/api/stripe/webhook",
+    method: "POST",
+    body: {},
+    expect: api.open(400),
+    note: "who is asking is proven by Stripe's signature, not a session; unsigned → 400",
+  },
   { file: "app/api/jobs/[id]/cancel/route.ts", url: "/api/jobs/no-such-job/cancel", method: "POST", expect: api.roles(["moderator", "admin"], 404) },
 ];

@@ -27,6 +27,8 @@ import { emptyState, newId, Persistence, type CheckoutRec, type DeclineRule, typ
 export interface StandinOptions {
   /** 0 (default) picks a free port. */
   port?: number;
+  /** Interface to listen on (default 127.0.0.1; docker-compose uses 0.0.0.0 inside its network). */
+  host?: string;
   /** Base URL browsers use for the pay and portal pages; default http://127.0.0.1:<port>. */
   publicUrl?: string;
   /** Where events are POSTed (the app's /api/stripe/webhook); null = no delivery. */
@@ -861,7 +863,7 @@ export async function startStripeStandin(opts: StandinOptions = {}): Promise<Run
 
   await new Promise<void>((resolve, reject) => {
     server.once("error", reject);
-    server.listen(opts.port ?? 0, "127.0.0.1", () => resolve());
+    server.listen(opts.port ?? 0, opts.host ?? "127.0.0.1", () => resolve());
   });
   const port = (server.address() as AddressInfo).port;
   const url = opts.publicUrl ?? `http://127.0.0.1:${port}`;
