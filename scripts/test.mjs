@@ -59,9 +59,14 @@ function vitest(name, config) {
       const r = JSON.parse(readFileSync(out, "utf8"));
       passed += r.numPassedTests;
       failed += r.numFailedTests;
-      // A file that failed to load counts as a failure even with no tests in it.
-      const broken = (r.testResults || []).filter((f) => f.status === "failed" && (f.assertionResults || []).length === 0).length;
+      // A file that failed to load, or whose setup hook failed (its tests then show as skipped),
+      // counts as one failure even though none of its tests failed.
+      const broken = (r.testResults || []).filter(
+        (f) => f.status === "failed" && !(f.assertionResults || []).some((a) => a.status === "failed"),
+      ).length;
       failed += broken;
+      // Whatever else made vitest fail (an unhandled error) must not end as "0 failed".
+      if (status !== 0 && r.numFailedTests === 0 && broken === 0) failed++;
     } else if (status !== 0) {
       failed++;
     }

@@ -15,7 +15,8 @@ import type { DemoKey } from "./helpers/accounts";
 /** Who asks: anonymous, or a demo account with the role and plan it is expected to have. */
 export const PRINCIPALS = {
   anonymous: null,
-  contributor: { account: "contributor", role: "contributor", plan: "open" },
+  // The newcomer has no accepted samples, so no contributor perk: a plain contributor on Open.
+  contributor: { account: "newcomer", role: "contributor", plan: "open" },
   moderator: { account: "moderator", role: "moderator", plan: "open" },
   admin: { account: "admin", role: "admin", plan: "open" },
 } as const satisfies Record<string, { account: DemoKey; role: Role; plan: Plan } | null>;
