@@ -18,6 +18,9 @@ const schema = z.object({
   STRIPE_API_BASE: z.url().optional(),
   // Seconds a worker holds a job before another may take it over.
   JOB_LEASE_SECONDS: z.coerce.number().int().min(5).max(3600).default(60),
+  // API usage counters are kept in memory and written to api_usage at most this often
+  // (milliseconds); 0 writes every request through. See lib/api/usage.ts.
+  API_USAGE_FLUSH_MS: z.coerce.number().int().min(0).max(60_000).default(500),
   // Set by the test runner only: enables test-only helpers on stand-ins.
   RAINPRINT_TEST: z.enum(["0", "1"]).default("0"),
 });

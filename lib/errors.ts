@@ -24,7 +24,26 @@ export const PROBLEM_TYPES = {
   "too-many-requests": { status: 429, title: "Too many requests" },
   "upstream-unavailable": { status: 502, title: "A service we depend on did not answer" },
   internal: { status: 500, title: "Something went wrong on our side" },
-} as const satisfies Record<string, { status: number; title: string }>;
+  // Public API (lib/api): keys, plans and daily quotas.
+  "invalid-api-key": {
+    status: 401,
+    title: "The API key is not valid",
+    description:
+      "The Authorization header did not carry a key Rainprint knows: it is malformed, unknown or revoked, or its account is disabled. Send `Authorization: Bearer rp_live_…` with a key from your account's API keys page, or leave the header out to call as an anonymous visitor.",
+  },
+  "plan-required": {
+    status: 403,
+    title: "Your plan does not include this",
+    description:
+      "The endpoint or feature needs a plan the caller does not have. `detail` names the lowest plan that includes it; the pricing page lists what each plan unlocks.",
+  },
+  "quota-exceeded": {
+    status: 429,
+    title: "The daily quota is used up",
+    description:
+      "The caller's requests for this UTC day have reached the plan's quota. `Retry-After` gives the seconds until the quota renews at 00:00 UTC, and the member `violated-policies` names the quota policies (as in the RateLimit-Policy header) that were exhausted. Requests refused as malformed never count.",
+  },
+} as const satisfies Record<string, { status: number; title: string; description?: string }>;
 
 export type ProblemType = keyof typeof PROBLEM_TYPES;
 
@@ -38,6 +57,8 @@ export type AppErrorOptions = {
   fields?: FieldErrors;
   /** Seconds, for 429 and 503. */
   retryAfterS?: number;
+  /** Extra members of the problem body (RFC 9457 extension members), e.g. `{ "violated-policies": ["daily"] }`. */
+  extensions?: Record<string, unknown>;
   cause?: unknown;
 };
 
@@ -49,6 +70,7 @@ export class AppError extends Error {
   readonly expose: boolean;
   readonly fields: FieldErrors | undefined;
   readonly retryAfterS: number | undefined;
+  readonly extensions: Record<string, unknown> | undefined;
 
   constructor(type: ProblemType, opts: AppErrorOptions = {}) {
     const spec = PROBLEM_TYPES[type];
@@ -61,6 +83,7 @@ export class AppError extends Error {
     this.expose = opts.expose ?? spec.status < 500;
     this.fields = opts.fields;
     this.retryAfterS = opts.retryAfterS;
+    this.extensions = opts.extensions;
   }
 }
 
@@ -93,6 +116,8 @@ export type ProblemDetails = {
   code: ProblemType;
   /** Extension member: field-level messages for forms. */
   errors?: FieldErrors;
+  /** Other extension members set by the thrower (AppErrorOptions.extensions). */
+  [member: string]: unknown;
 };
 
 export function problemTypeUri(type: ProblemType): string {
@@ -132,6 +157,9 @@ export function problemBody(err: AppError, instance?: string): ProblemDetails {
   if (!err.expose) body.detail = "The error was logged. Please try again later.";
   if (instance) body.instance = instance;
   if (err.fields && err.expose) body.errors = err.fields;
+  if (err.extensions && err.expose) {
+    for (const [k, v] of Object.entries(err.extensions)) if (!(k in body)) body[k] = v;
+  }
   return body;
 }
 

@@ -24,6 +24,8 @@ export type Viewer = {
   role: Role;
   plan: Plan;
   planSource: PlanSource;
+  /** The organisation whose subscription gives the plan (planSource "organization"), else null. */
+  planOrganizationId: string | null;
   organizations: ViewerOrganization[];
 };
 
@@ -65,8 +67,17 @@ export async function loadViewer(userId: string): Promise<Viewer | null> {
     .where(and(eq(memberships.userId, user.id)))
     .orderBy(asc(organizations.name))
     .all();
-  const { plan, planSource } = await resolvePlan(user.id);
-  return { id: user.id, email: user.email, name: user.name, role: user.role, plan, planSource, organizations: orgs };
+  const { plan, planSource, organizationId } = await resolvePlan(user.id);
+  return {
+    id: user.id,
+    email: user.email,
+    name: user.name,
+    role: user.role,
+    plan,
+    planSource,
+    planOrganizationId: organizationId ?? null,
+    organizations: orgs,
+  };
 }
 
 /** The signed-in viewer, or null. Never throws for a missing or stale session. */

@@ -70,7 +70,7 @@ const SAFE_METHODS = new Set(["GET", "HEAD", "OPTIONS"]);
  * well; this is the second lock. Requests without Origin (scripts, API
  * clients) are not affected.
  */
-function refuseCrossSite(req: Request): void {
+export function refuseCrossSite(req: Request): void {
   if (SAFE_METHODS.has(req.method)) return;
   const origin = req.headers.get("origin");
   if (!origin || origin === "null") {

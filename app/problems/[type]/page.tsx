@@ -11,10 +11,15 @@ type Props = { params: Promise<{ type: string }> };
 export default async function ProblemTypePage({ params }: Props) {
   const { type } = await params;
   if (!Object.hasOwn(PROBLEM_TYPES, type)) notFound();
-  const spec = PROBLEM_TYPES[type as ProblemType];
+  const spec: { status: number; title: string; description?: string } = PROBLEM_TYPES[type as ProblemType];
   return (
     <div className="max-w-prose">
       <PageHeader title={spec.title} lead={`Error type “${type}”, HTTP status ${spec.status}.`} />
+      {spec.description ? (
+        <p className="mb-4 text-ink-800" data-testid="problem-description">
+          {spec.description}
+        </p>
+      ) : null}
       <p className="text-ink-700">
         Rainprint answers failed API requests with <code className="font-mono">application/problem+json</code> (RFC 9457). The member{" "}
         <code className="font-mono">code</code> repeats this type&apos;s name and is stable; <code className="font-mono">detail</code> explains this
