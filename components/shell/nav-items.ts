@@ -33,7 +33,10 @@ export const NAV_ITEMS: readonly NavItem[] = [
   // { href: "/pricing", label: "Pricing", audience: "everyone", group: "main" },
   { href: "/jobs", label: "Jobs", audience: { roles: ["moderator", "admin"] }, group: "main" },
   { href: "/admin/users", label: "Users", audience: { roles: ["admin"] }, group: "main" },
+  { href: "/api", label: "API", audience: "everyone", group: "main" },
   { href: "/account", label: "Account", audience: "signed-in", group: "account" },
+  { href: "/account/api-keys", label: "API keys", audience: { plans: ["researcher", "institution"] }, group: "account" },
+  { href: "/account/usage", label: "Usage", audience: { plans: ["researcher", "institution"] }, group: "account" },
   { href: "/sign-in", label: "Sign in", audience: "signed-out", group: "account" },
   { href: "/sign-up", label: "Create account", audience: "signed-out", group: "account" },
 ];

@@ -19,6 +19,8 @@ export const PRINCIPALS = {
   contributor: { account: "newcomer", role: "contributor", plan: "open" },
   moderator: { account: "moderator", role: "moderator", plan: "open" },
   admin: { account: "admin", role: "admin", plan: "open" },
+  // The station operator has accepted samples from the last 12 months: Researcher through the contributor perk.
+  perk: { account: "contributor", role: "contributor", plan: "researcher" },
 } as const satisfies Record<string, { account: DemoKey; role: Role; plan: Plan } | null>;
 
 export type Principal = keyof typeof PRINCIPALS;
@@ -59,6 +61,8 @@ export const api = {
   open: (status = 200): Expectations => each(() => status),
   signedIn: (status = 200): Expectations => each((w) => (w ? status : 401)),
   roles: (roles: readonly Role[], status = 200): Expectations => each((w) => (!w ? 401 : roles.includes(w.role) ? status : 403)),
+  /** Signed-in callers on one of `plans` get `status`; other plans 403; signed out 401. */
+  plans: (plans: readonly Plan[], status = 200): Expectations => each((w) => (!w ? 401 : plans.includes(w.plan) ? status : 403)),
 };
 
 export const POLICY: PolicyEntry[] = [
@@ -73,6 +77,7 @@ export const POLICY: PolicyEntry[] = [
   { file: "app/reset-password/page.tsx", url: "/reset-password", expect: page.open() },
   { file: "app/reset-password/new/page.tsx", url: "/reset-password/new?token=not-a-real-token-000000", expect: page.open() },
   { file: "app/problems/[type]/page.tsx", url: "/problems/forbidden", expect: page.open() },
+  { file: "app/api/page.tsx", url: "/api", expect: page.open() },
   { file: "app/dev/mailbox/page.tsx", url: "/dev/mailbox", expect: page.open(), note: "present while the mail stand-in is configured (always in tests)" },
 
   // ── signed-in pages ──
@@ -80,10 +85,12 @@ export const POLICY: PolicyEntry[] = [
   {
     file: "app/organizations/[slug]/page.tsx",
     url: "/organizations/lakeshore-basin",
-    expect: { ...page.roles(["admin"]), contributor: 404, moderator: 404 },
+    expect: { ...page.roles(["admin"]), contributor: 404, moderator: 404, perk: 404 },
     note: "members and admins only; others get 404 so the organisation's existence is not revealed",
   },
   { file: "app/jobs/page.tsx", url: "/jobs", expect: page.roles(["moderator", "admin"]) },
+  { file: "app/account/api-keys/page.tsx", url: "/account/api-keys", expect: page.signedIn(), note: "Open accounts see why they cannot make keys" },
+  { file: "app/account/usage/page.tsx", url: "/account/usage", expect: page.signedIn() },
   { file: "app/admin/users/page.tsx", url: "/admin/users", expect: page.roles(["admin"]) },
 
   // ── route handlers ──
@@ -109,4 +116,21 @@ export const POLICY: PolicyEntry[] = [
     note: "who is asking is proven by Stripe's signature, not a session; unsigned → 400",
   },
   { file: "app/api/jobs/[id]/cancel/route.ts", url: "/api/jobs/no-such-job/cancel", method: "POST", expect: api.roles(["moderator", "admin"], 404) },
+
+  // ── API keys (the account's keys page calls these) ──
+  { file: "app/api/account/api-keys/route.ts", url: "/api/account/api-keys", expect: api.signedIn(200) },
+  { file: "app/api/account/api-keys/route.ts", url: "/api/account/api-keys", method: "POST", body: {}, expect: api.plans(["researcher", "institution"], 400), note: "plan checked before the body: Open 403, paid plans 400 for a missing name" },
+  { file: "app/api/account/api-keys/[id]/route.ts", url: "/api/account/api-keys/no-such-key", method: "DELETE", expect: api.signedIn(404), note: "any plan may revoke its own keys" },
+
+  // ── public API v1 (anonymous callers are on Open; the perk column is a paid plan through a session) ──
+  { file: "app/api/v1/route.ts", url: "/api/v1", expect: api.open() },
+  { file: "app/api/v1/openapi.json/route.ts", url: "/api/v1/openapi.json", expect: api.open() },
+  { file: "app/api/v1/stations/route.ts", url: "/api/v1/stations?limit=5", expect: api.open() },
+  { file: "app/api/v1/stations/[code]/route.ts", url: "/api/v1/stations/RP-EUR-001", expect: api.open() },
+  {
+    file: "app/api/v1/stations/[code]/samples/route.ts",
+    url: "/api/v1/stations/RP-EUR-001/samples?limit=5",
+    expect: api.plans(["researcher", "institution"]),
+    note: "accepted samples: paid plans; Open gets 403 plan-required naming Researcher",
+  },
 ];

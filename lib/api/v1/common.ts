@@ -33,8 +33,8 @@ export const pageSchema = z
 export const stationCodeParams = z.strictObject({
   code: z
     .string()
-    .regex(/^[A-Za-z0-9][A-Za-z0-9_-]{1,39}$/, { error: "A station code is 2–40 letters, digits, hyphens or underscores, e.g. RP-EUR-000." })
-    .describe("Station code, e.g. RP-EUR-000 (case-insensitive)."),
+    .regex(/^[A-Za-z0-9][A-Za-z0-9_-]{1,39}$/, { error: "A station code is 2–40 letters, digits, hyphens or underscores, e.g. RP-EUR-001." })
+    .describe("Station code, e.g. RP-EUR-001 (case-insensitive)."),
 });
 
 export const limitOffset = (defaultLimit: number, maxLimit: number) => ({

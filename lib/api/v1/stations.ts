@@ -276,7 +276,7 @@ export const getStation = defineEndpoint({
   response: stationDetail,
   responseDescription: "The station and its means.",
   errors: ["not-found"],
-  examples: [{ title: "A demo station", params: { code: "RP-EUR-000" } }],
+  examples: [{ title: "A demo station", params: { code: "RP-EUR-001" } }],
   async handler({ params }) {
     const st = await approvedStation(params.code);
     const rows = await getDb()
@@ -352,7 +352,7 @@ export const listStationSamples = defineEndpoint({
   response: samplesResponse,
   responseDescription: "One page of accepted samples.",
   errors: ["not-found"],
-  examples: [{ title: "Samples of 2025", params: { code: "RP-EUR-000" }, query: { from: "2025-01-01", to: "2026-01-01" }, withKey: true }],
+  examples: [{ title: "Samples of 2025", params: { code: "RP-EUR-001" }, query: { from: "2025-01-01", to: "2026-01-01" }, withKey: true }],
   async handler({ params, query }) {
     const st = await approvedStation(params.code);
     const where = and(

@@ -180,3 +180,45 @@ describe("keys, plans and quotas", () => {
     expect(index.body.caller).toMatchObject({ kind: "key", plan: "institution", key: { name: "a" } });
   });
 });
+
+describe("site-lookup meter (for lookup endpoints)", () => {
+  it("Open callers are also capped by siteLookupsPerDay; both policies appear in the headers; paid plans have no lookup cap", async () => {
+    const { defineEndpoint } = await import("@/lib/api/endpoint");
+    const { z } = await import("zod");
+    const lookup = v1Handler(
+      defineEndpoint({
+        id: "testLookup",
+        method: "GET",
+        path: "/api/v1/test-lookup",
+        tag: "Test",
+        summary: "test",
+        description: "test",
+        access: "everyone",
+        response: z.object({ ok: z.boolean() }),
+        responseDescription: "ok",
+        quota: { meter: "lookups" },
+        examples: [],
+        handler: async () => ({ ok: true }),
+      }),
+    );
+    const cap = PLAN_CATALOGUE.open.limits.siteLookupsPerDay!;
+    const ip = "192.0.2.200";
+    let last: Call | null = null;
+    for (let i = 0; i < cap; i++) {
+      last = await call(lookup as typeof handlers.list, "/api/v1/test-lookup", { ip });
+      expect(last.status).toBe(200);
+    }
+    expect(last!.headers.get("ratelimit-policy")).toBe(`"daily";q=${PLAN_CATALOGUE.open.limits.apiRequestsPerDay};w=86400, "lookups";q=${cap};w=86400`);
+    expect(last!.headers.get("ratelimit")).toMatch(new RegExp(`^"daily";r=${PLAN_CATALOGUE.open.limits.apiRequestsPerDay - cap};t=\\d+, "lookups";r=0;t=\\d+$`));
+    const refused = await call(lookup as typeof handlers.list, "/api/v1/test-lookup", { ip });
+    expect(refused.status).toBe(429);
+    expect(refused.body["violated-policies"]).toEqual(["lookups"]);
+    // The refused lookup did not use up a request either.
+    expect(await stored(`anon:${ip}`)).toBe(cap);
+
+    const r = await researcher();
+    const { secret } = await createApiKey(await r.viewer(), { name: "lookups" });
+    const paid = await call(lookup as typeof handlers.list, "/api/v1/test-lookup", { key: secret });
+    expect(paid.headers.get("ratelimit-policy")).toBe(`"daily";q=${PLAN_CATALOGUE.researcher.limits.apiRequestsPerDay};w=86400`);
+  });
+});
