@@ -1,0 +1,106 @@
+// `npm run bench:api`: what the public API's own machinery (caller, key lookup,
+// plan, quota counting, headers) costs per request, against a production build.
+// Loads a trivial health route and v1 endpoints with autocannon (64 connections)
+// and prints requests per second, p50/p99 latency, errors and the ratio to the
+// health route — medians of several runs. A benchmark, not a test: it asserts nothing.
+//
+//   BENCH_SECONDS (default 10) per run, BENCH_RUNS (default 3), BENCH_CONNECTIONS (default 64)
+import { spawnSync } from "node:child_process";
+import { mkdtempSync, rmSync } from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import autocannon from "autocannon";
+import { createClient } from "@libsql/client";
+import { generateApiKey } from "../lib/api/key-format";
+// @ts-expect-error plain ESM helper without type declarations
+import { ensureBuild } from "./lib/build.mjs";
+// @ts-expect-error plain ESM helper without type declarations
+import { freePort, localEnv, serviceSpecs, startProcesses } from "./lib/services.mjs";
+
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
+const RUNS = Number(process.env.BENCH_RUNS ?? 3);
+const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 64);
+
+type Target = { name: string; path: string; withKey: boolean };
+const TARGETS: Target[] = [
+  { name: "health (trivial route)", path: "/api/health", withKey: false },
+  { name: "GET /api/v1 (key; caller + headers, free)", path: "/api/v1", withKey: true },
+  { name: "GET /api/v1/stations/{code} (key; counted, means of ~36 samples)", path: "/api/v1/stations/RP-EUR-001", withKey: true },
+  { name: "GET /api/v1/stations?limit=20 (anonymous partition per connection)", path: "/api/v1/stations?limit=20", withKey: false },
+];
+
+type Result = { rps: number; p50: number; p99: number; non2xx: number; errors: number };
+
+const median = (xs: number[]) => xs.slice().sort((a, b) => a - b)[Math.floor(xs.length / 2)];
+
+async function load(url: string, headers: Record<string, string>, seconds: number): Promise<Result> {
+  const r = await autocannon({ url, connections: CONNECTIONS, duration: seconds, headers });
+  return { rps: r.requests.average, p50: r.latency.p50, p99: r.latency.p99, non2xx: r.non2xx, errors: r.errors + r.timeouts };
+}
+
+async function main() {
+  ensureBuild();
+  const dir = mkdtempSync(path.join(os.tmpdir(), "rainprint-bench-api-"));
+  const ports = { app: await freePort(), mail: await freePort(), stripe: await freePort() };
+  const databaseUrl = `file:${path.join(dir, "bench.db")}`;
+  const env = { ...localEnv({ ports, databaseUrl, test: false }), RAINPRINT_SEED_PROFILE: "test" } as Record<string, string>;
+  const setup = spawnSync(path.resolve("node_modules/.bin/tsx"), ["--conditions=react-server", path.resolve("scripts/setup.ts")], { env: { ...process.env, ...env }, stdio: "inherit" });
+  if (setup.status !== 0) throw new Error("scripts/setup.ts failed");
+
+  // One Institution organisation and key per keyed run, so no run meets a daily quota.
+  const db = createClient({ url: databaseUrl });
+  const owner = String((await db.execute("SELECT id FROM users WHERE email = 'institution@rainprint.example'")).rows[0].id);
+  const keys: string[] = [];
+  for (let i = 0; i < TARGETS.length * RUNS + 1; i++) {
+    const orgId = crypto.randomUUID();
+    const { key, prefix, hash } = generateApiKey();
+    await db.batch(
+      [
+        { sql: "INSERT INTO organizations (id, name, slug, is_demo, created_at) VALUES (?, ?, ?, 1, ?)", args: [orgId, `Bench ${i}`, `bench-${i}-${orgId.slice(0, 8)}`, Date.now()] },
+        { sql: "INSERT INTO memberships (organization_id, user_id, role, created_at) VALUES (?, ?, 'owner', ?)", args: [orgId, owner, Date.now()] },
+        {
+          sql: "INSERT INTO subscriptions (id, organization_id, plan, interval, status, stripe_customer_id, stripe_subscription_id, seats, cancel_at_period_end, created_at) VALUES (?, ?, 'institution', 'year', 'active', ?, ?, 3, 0, ?)",
+          args: [crypto.randomUUID(), orgId, `cus_bench_${i}`, `sub_bench_${orgId}`, Date.now()],
+        },
+        { sql: "INSERT INTO api_keys (id, user_id, organization_id, name, prefix, hash, scopes, created_at) VALUES (?, ?, ?, ?, ?, ?, '[\"api:v1\"]', ?)", args: [crypto.randomUUID(), owner, orgId, `bench ${i}`, prefix, hash, Date.now()] },
+      ],
+      "write",
+    );
+    keys.push(key);
+  }
+  db.close();
+
+  const services = await startProcesses(serviceSpecs({ ports }).filter((s: { name: string }) => s.name === "web app"), { env, quiet: true, logDir: path.join(dir, "logs") });
+  const base = `http://127.0.0.1:${ports.app}`;
+  try {
+    console.log(`\nbench:api — ${CONNECTIONS} connections, ${SECONDS} s per run, median of ${RUNS} runs (os.cpus: ${os.cpus().length})\n`);
+    let k = 0;
+    // Warm up every route once (first-request compilation of server chunks, lazy caches).
+    for (const t of TARGETS) await load(`${base}${t.path}`, t.withKey ? { authorization: `Bearer ${keys[k]}` } : {}, 2);
+    k++;
+    const rows: { name: string; r: Result }[] = [];
+    for (const t of TARGETS) {
+      const runs: Result[] = [];
+      for (let i = 0; i < RUNS; i++) {
+        // Anonymous runs: each run from its own documentation address (RFC 5737), so the Open quota is
+        // what answers beyond 50 requests — those answers are 429s and show up as non-2xx.
+        const headers: Record<string, string> = t.withKey ? { authorization: `Bearer ${keys[k++]}` } : { "x-forwarded-for": `198.51.100.${i + 1}` };
+        runs.push(await load(`${base}${t.path}`, headers, SECONDS));
+      }
+      rows.push({ name: t.name, r: { rps: median(runs.map((x) => x.rps)), p50: median(runs.map((x) => x.p50)), p99: median(runs.map((x) => x.p99)), non2xx: median(runs.map((x) => x.non2xx)), errors: median(runs.map((x) => x.errors)) } });
+    }
+    const health = rows[0].r.rps;
+    console.log("target".padEnd(72) + "req/s".padStart(9) + "p50 ms".padStart(9) + "p99 ms".padStart(9) + "non-2xx".padStart(9) + "errors".padStart(8) + "  vs health");
+    for (const { name, r } of rows)
+      console.log(name.padEnd(72) + r.rps.toFixed(0).padStart(9) + r.p50.toFixed(1).padStart(9) + r.p99.toFixed(1).padStart(9) + String(r.non2xx).padStart(9) + String(r.errors).padStart(8) + `  ${(r.rps / health).toFixed(2)}`);
+    console.log("\nThe anonymous row answers 429 after the Open plan's daily quota: it measures refusals (quota checks in memory), not data.");
+  } finally {
+    await services.stop();
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
+
+main().catch((e) => {
+  console.error(e);
+  process.exit(1);
+});
