@@ -1,7 +1,7 @@
 import "server-only";
 import { and, desc, eq, inArray, isNull, or, sql } from "drizzle-orm";
 import { z } from "zod";
-import { getDb } from "@/db";
+import { getClient, getDb } from "@/db";
 import { apiKeys, organizations, reviewEvents, users, type Plan } from "@/db/schema";
 import type { Viewer } from "@/lib/auth/guard";
 import { lowestPlanAllowing, planLimits, PLAN_CATALOGUE } from "@/lib/billing/plans";
@@ -192,13 +192,23 @@ export async function revokeApiKey(viewer: Viewer, keyId: string): Promise<ApiKe
 
 export type ActiveKey = { id: string; name: string; prefix: string; userId: string; organizationId: string | null };
 
-/** The active key with this secret, or null (unknown or revoked). One indexed read; never cached, so a revocation counts at once. */
+/**
+ * The active key with this secret, or null (unknown or revoked). One indexed read by hash, never cached,
+ * so a revocation counts from the next request. (Looking up by hash leaks nothing useful through timing:
+ * a caller cannot steer the hash of what they send.) Raw SQL: this runs on every keyed request.
+ */
 export async function findActiveKey(secret: string): Promise<ActiveKey | null> {
-  const row = await getDb()
-    .select({ id: apiKeys.id, name: apiKeys.name, prefix: apiKeys.prefix, userId: apiKeys.userId, organizationId: apiKeys.organizationId, revokedAt: apiKeys.revokedAt })
-    .from(apiKeys)
-    .where(eq(apiKeys.hash, hashApiKey(secret)))
-    .get();
-  if (!row || row.revokedAt) return null;
-  return { id: row.id, name: row.name, prefix: row.prefix, userId: row.userId, organizationId: row.organizationId };
+  const rs = await getClient().execute({
+    sql: "SELECT id, name, prefix, user_id, organization_id FROM api_keys WHERE hash = ? AND revoked_at IS NULL",
+    args: [hashApiKey(secret)],
+  });
+  const row = rs.rows[0];
+  if (!row) return null;
+  return {
+    id: String(row.id),
+    name: String(row.name),
+    prefix: String(row.prefix),
+    userId: String(row.user_id),
+    organizationId: row.organization_id === null ? null : String(row.organization_id),
+  };
 }

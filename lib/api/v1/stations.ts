@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, count, eq, gte, lt, max, min, sql, type SQL } from "drizzle-orm";
+import { and, asc, count, eq, gte, inArray, lt, max, min, sql, type SQL } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db";
 import { COLLECTOR_TYPES, samples, stations } from "@/db/schema";
@@ -32,7 +32,7 @@ const stationSummary = z
   })
   .meta({ id: "StationSummary" });
 
-type StationRow = {
+type StationRow = SampleStats & {
   code: string;
   name: string;
   lat: number;
@@ -43,9 +43,6 @@ type StationRow = {
   country: string | null;
   operatingOrg: string | null;
   isDemo: boolean;
-  sampleCount: number | null;
-  firstDate: string | null;
-  lastDate: string | null;
 };
 
 function summary(r: StationRow): z.output<typeof stationSummary> {
@@ -59,7 +56,7 @@ function summary(r: StationRow): z.output<typeof stationSummary> {
     samplingInterval: r.samplingInterval,
     country: r.country,
     operator: r.operatingOrg,
-    sampleCount: r.sampleCount ?? 0,
+    sampleCount: r.sampleCount,
     firstDate: r.firstDate,
     lastDate: r.lastDate,
     synthetic: r.isDemo,
@@ -69,37 +66,35 @@ function summary(r: StationRow): z.output<typeof stationSummary> {
 
 const credit = (operator: string | null) => `${operator ?? "The station operator"}, via Rainprint`;
 
-function acceptedAggregate() {
-  return getDb()
-    .select({
-      stationId: samples.stationId,
-      sampleCount: count().as("sample_count"),
-      firstDate: min(samples.startDate).as("first_date"),
-      lastDate: max(samples.endDate).as("last_date"),
-    })
+const stationColumns = {
+  id: stations.id,
+  code: stations.code,
+  name: stations.name,
+  lat: stations.lat,
+  lon: stations.lon,
+  elevationM: stations.elevationM,
+  collectorType: stations.collectorType,
+  samplingInterval: stations.samplingInterval,
+  country: stations.country,
+  operatingOrg: stations.operatingOrg,
+  isDemo: stations.isDemo,
+};
+
+type SampleStats = { sampleCount: number; firstDate: string | null; lastDate: string | null };
+
+/** Accepted-sample count and span for these stations (one grouped read over the station/status index). */
+async function acceptedStats(stationIds: string[]): Promise<Map<string, SampleStats>> {
+  if (!stationIds.length) return new Map();
+  const rows = await getDb()
+    .select({ stationId: samples.stationId, sampleCount: count(), firstDate: min(samples.startDate), lastDate: max(samples.endDate) })
     .from(samples)
-    .where(eq(samples.status, "accepted"))
+    .where(and(inArray(samples.stationId, stationIds), eq(samples.status, "accepted")))
     .groupBy(samples.stationId)
-    .as("acc");
+    .all();
+  return new Map(rows.map((r) => [r.stationId, { sampleCount: r.sampleCount, firstDate: r.firstDate, lastDate: r.lastDate }]));
 }
 
-function stationColumns(acc: ReturnType<typeof acceptedAggregate>) {
-  return {
-    code: stations.code,
-    name: stations.name,
-    lat: stations.lat,
-    lon: stations.lon,
-    elevationM: stations.elevationM,
-    collectorType: stations.collectorType,
-    samplingInterval: stations.samplingInterval,
-    country: stations.country,
-    operatingOrg: stations.operatingOrg,
-    isDemo: stations.isDemo,
-    sampleCount: acc.sampleCount,
-    firstDate: acc.firstDate,
-    lastDate: acc.lastDate,
-  };
-}
+const NO_SAMPLES: SampleStats = { sampleCount: 0, firstDate: null, lastDate: null };
 
 // ───────────────────────────── GET /api/v1/stations ─────────────────────────────
 
@@ -158,7 +153,6 @@ export const listStations = defineEndpoint({
   ],
   async handler({ query }) {
     const db = getDb();
-    const acc = acceptedAggregate();
     const where: SQL[] = [eq(stations.status, "approved")];
     if (query.bbox) {
       const { west, south, east, north } = query.bbox;
@@ -172,11 +166,12 @@ export const listStations = defineEndpoint({
     }
     const filter = and(...where);
     const [rows, totalRow] = await Promise.all([
-      db.select(stationColumns(acc)).from(stations).leftJoin(acc, eq(acc.stationId, stations.id)).where(filter).orderBy(asc(stations.code)).limit(query.limit).offset(query.offset).all(),
+      db.select(stationColumns).from(stations).where(filter).orderBy(asc(stations.code)).limit(query.limit).offset(query.offset).all(),
       db.select({ n: count() }).from(stations).where(filter).get(),
     ]);
     const total = totalRow?.n ?? 0;
-    const list = rows.map(summary);
+    const stats = await acceptedStats(rows.map((r) => r.id));
+    const list = rows.map((r) => summary({ ...r, ...(stats.get(r.id) ?? NO_SAMPLES) }));
     const raw = { q: query.q, country: query.country, bbox: query.bbox ? [query.bbox.west, query.bbox.south, query.bbox.east, query.bbox.north].join(",") : undefined };
     return {
       stations: list,
@@ -252,11 +247,9 @@ function periodOut(p: PeriodMean): z.output<typeof periodMeanSchema> {
 }
 
 async function approvedStation(code: string) {
-  const acc = acceptedAggregate();
   const row = await getDb()
-    .select({ id: stations.id, ...stationColumns(acc) })
+    .select(stationColumns)
     .from(stations)
-    .leftJoin(acc, eq(acc.stationId, stations.id))
     .where(and(eq(stations.status, "approved"), sql`upper(${stations.code}) = ${code.toUpperCase()}`))
     .get();
   if (!row) throw errors.notFound(`There is no approved station with code ${code}.`);
@@ -286,8 +279,11 @@ export const getStation = defineEndpoint({
       .orderBy(asc(samples.startDate))
       .all();
     const means = aggregateStationMeans(rows);
+    const stats: SampleStats = rows.length
+      ? { sampleCount: rows.length, firstDate: rows[0].startDate, lastDate: rows.reduce((m, r) => (r.endDate > m ? r.endDate : m), rows[0].endDate) }
+      : NO_SAMPLES;
     return {
-      station: summary(st),
+      station: summary({ ...st, ...stats }),
       means: {
         annual: periodOut(means.annual),
         monthly: means.monthly.map(periodOut),

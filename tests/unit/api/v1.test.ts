@@ -2,6 +2,7 @@ import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { getClient, getDb } from "@/db";
 import { apiKeys, subscriptions } from "@/db/schema";
+import { forgetCachedPlans } from "@/lib/api/caller";
 import { v1Handler } from "@/lib/api/endpoint";
 import { createApiKey } from "@/lib/api/keys";
 import { flushUsage, resetUsageMemory } from "@/lib/api/usage";
@@ -139,6 +140,7 @@ describe("keys, plans and quotas", () => {
 
     // The subscription ends: the key's account is on Open, the key no longer opens paid endpoints.
     await getDb().update(subscriptions).set({ status: "canceled" }).where(eq(subscriptions.userId, r.id));
+    forgetCachedPlans(); // plans behind keys are remembered for PLAN_CACHE_MS
     const lapsed = await call(handlers.samples, url, { params, key: secret });
     expect(lapsed.status).toBe(403);
     expect(lapsed.body.code).toBe("plan-required");
