@@ -30,6 +30,12 @@ ensureBuild();
 
 const services = await startProcesses(serviceSpecs({ ports }), { env });
 
+// Demo subscriptions go through the running stand-in and the app's webhook route, so they come after both.
+log("creating the demo subscriptions through the payments stand-in (first run only) …");
+if (run(path.join(root, "node_modules", ".bin", "tsx"), ["--conditions=react-server", path.join(root, "scripts", "seed-billing.ts")], { env }) !== 0) {
+  log("the demo subscriptions could not be created (see above); Rainprint runs without them");
+}
+
 const accounts = JSON.parse(readFileSync(path.join(root, "db", "seed", "demo-accounts.json"), "utf8"));
 log("");
 log(`Rainprint is running at ${env.APP_URL}`);

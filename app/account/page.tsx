@@ -45,6 +45,11 @@ export default async function AccountPage() {
               {plan.name} <span className="font-normal text-ink-700">— {SOURCE_TEXT[viewer.planSource]}</span>
             </dd>
             <dd className="text-sm text-ink-700">{plan.text}</dd>
+            <dd className="mt-1 text-sm">
+              <Link href="/account/billing" className="underline">
+                Billing — plan, renewal, seats and invoices
+              </Link>
+            </dd>
           </div>
         </dl>
         {viewer.organizations.length ? (

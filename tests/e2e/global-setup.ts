@@ -32,6 +32,13 @@ export default async function setup(project: TestProject) {
   const logDir = path.resolve("test-results", "logs");
   const services = await startProcesses(serviceSpecs({ ports }), { env, quiet: true, logDir });
 
+  // The demo subscriptions (researcher, lakeshore-basin) through the stand-in and the app's webhook route.
+  const seeded = run(path.resolve("node_modules/.bin/tsx"), ["--conditions=react-server", path.resolve("scripts/seed-billing.ts")], { env });
+  if (seeded !== 0) {
+    await services.stop();
+    throw new Error("scripts/seed-billing.ts failed for the end-to-end deployment");
+  }
+
   project.provide("baseUrl", `http://localhost:${ports.app}`);
   project.provide("mailUrl", `http://127.0.0.1:${ports.mail}`);
   project.provide("stripeUrl", `http://127.0.0.1:${ports.stripe}`);

@@ -21,6 +21,10 @@ export const PRINCIPALS = {
   admin: { account: "admin", role: "admin", plan: "open" },
   // The station operator has accepted samples from the last 12 months: Researcher through the contributor perk.
   perk: { account: "contributor", role: "contributor", plan: "researcher" },
+  // Plan as a dimension: demo subscriptions created through the payments stand-in (scripts/seed-billing.ts).
+  researcher: { account: "researcher", role: "contributor", plan: "researcher" },
+  // Owner of the lakeshore-basin organisation, whose Institution subscription gives them a seat.
+  institution: { account: "institution", role: "contributor", plan: "institution" },
 } as const satisfies Record<string, { account: DemoKey; role: Role; plan: Plan } | null>;
 
 export type Principal = keyof typeof PRINCIPALS;
@@ -54,6 +58,8 @@ export const page = {
   roles: (roles: readonly Role[]): Expectations => each((w) => (!w ? SIGN_IN : roles.includes(w.role) ? 200 : 403)),
   /** Only for visitors who are signed out; signed-in visitors are sent on to `to`. */
   signedOutOnly: (to: string): Expectations => each((w) => (w ? { redirect: to } : 200)),
+  /** Signed-in visitors on one of `plans` (plan-gated pages answer 403 to the others). */
+  plans: (plans: readonly Plan[]): Expectations => each((w) => (!w ? SIGN_IN : plans.includes(w.plan) ? 200 : 403)),
 };
 
 // … and for route handlers (signed-out callers get 401).
@@ -64,6 +70,9 @@ export const api = {
   /** Signed-in callers on one of `plans` get `status`; other plans 403; signed out 401. */
   plans: (plans: readonly Plan[], status = 200): Expectations => each((w) => (!w ? 401 : plans.includes(w.plan) ? status : 403)),
 };
+
+/** Plans that include downloads (station data and edition surfaces), as the catalogue says. */
+const DOWNLOAD_PLANS: readonly Plan[] = ["researcher", "institution"];
 
 export const POLICY: PolicyEntry[] = [
   // ── public pages ──
@@ -78,6 +87,10 @@ export const POLICY: PolicyEntry[] = [
   { file: "app/reset-password/new/page.tsx", url: "/reset-password/new?token=not-a-real-token-000000", expect: page.open() },
   { file: "app/problems/[type]/page.tsx", url: "/problems/forbidden", expect: page.open() },
   { file: "app/api/page.tsx", url: "/api", expect: page.open() },
+  { file: "app/pricing/page.tsx", url: "/pricing", expect: page.open() },
+  { file: "app/pricing/cancelled/page.tsx", url: "/pricing/cancelled", expect: page.open() },
+  { file: "app/downloads/page.tsx", url: "/downloads", expect: page.open(), note: "public; the download buttons appear only for plans that include them" },
+  { file: "app/invitations/accept/page.tsx", url: "/invitations/accept?token=not-a-real-invitation-token", expect: page.open(), note: "shows that the link is not valid" },
   { file: "app/dev/mailbox/page.tsx", url: "/dev/mailbox", expect: page.open(), note: "present while the mail stand-in is configured (always in tests)" },
 
   // ── signed-in pages ──
@@ -85,8 +98,15 @@ export const POLICY: PolicyEntry[] = [
   {
     file: "app/organizations/[slug]/page.tsx",
     url: "/organizations/lakeshore-basin",
-    expect: { ...page.roles(["admin"]), contributor: 404, moderator: 404, perk: 404 },
-    note: "members and admins only; others get 404 so the organisation's existence is not revealed",
+    expect: { ...page.roles(["admin"]), contributor: 404, moderator: 404, researcher: 404, institution: 200, perk: 404 },
+    note: "members (the institution demo account owns it) and admins only; others get 404 so the organisation's existence is not revealed",
+  },
+  { file: "app/account/billing/page.tsx", url: "/account/billing", expect: page.signedIn() },
+  {
+    file: "app/pricing/success/page.tsx",
+    url: "/pricing/success?session=cs_test_not_a_session",
+    expect: page.signedIn(),
+    note: "a checkout that is not the viewer's shows 'not found' text, never another person's plan",
   },
   { file: "app/jobs/page.tsx", url: "/jobs", expect: page.roles(["moderator", "admin"]) },
   { file: "app/account/api-keys/page.tsx", url: "/account/api-keys", expect: page.signedIn(), note: "Open accounts see why they cannot make keys" },
@@ -114,6 +134,44 @@ export const POLICY: PolicyEntry[] = [
     body: {},
     expect: api.open(400),
     note: "who is asking is proven by Stripe's signature, not a session; unsigned → 400",
+  },
+  // ── billing, seats and downloads ──
+  { file: "app/api/billing/checkout/route.ts", url: "/api/billing/checkout", method: "POST", body: {}, expect: api.signedIn(400) },
+  {
+    file: "app/api/billing/portal/route.ts",
+    url: "/api/billing/portal",
+    method: "POST",
+    body: { organizationId: "no-such-organization" },
+    expect: api.signedIn(404),
+    note: "only an organisation the viewer owns; nobody owns this one",
+  },
+  { file: "app/api/organizations/[slug]/invitations/route.ts", url: "/api/organizations/lakeshore-basin/invitations", method: "POST", body: {}, expect: api.signedIn(400) },
+  {
+    file: "app/api/organizations/[slug]/invitations/[id]/route.ts",
+    url: "/api/organizations/lakeshore-basin/invitations/no-such-invitation",
+    method: "DELETE",
+    expect: api.signedIn(404),
+    note: "non-members: the organisation is not revealed; its owner: no such invitation",
+  },
+  {
+    file: "app/api/organizations/[slug]/members/[userId]/route.ts",
+    url: "/api/organizations/lakeshore-basin/members/no-such-user",
+    method: "DELETE",
+    expect: api.signedIn(404),
+    note: "non-members: the organisation is not revealed; its owner: no such member",
+  },
+  { file: "app/api/invitations/accept/route.ts", url: "/api/invitations/accept", method: "POST", body: {}, expect: api.signedIn(400) },
+  {
+    file: "app/api/downloads/station-data/[file]/route.ts",
+    url: "/api/downloads/station-data/samples.csv?stations=NO-SUCH-STATION",
+    expect: api.plans(DOWNLOAD_PLANS),
+    note: "plan-gated (lib/downloads/access.ts): Open → 403 plan-required naming Researcher",
+  },
+  {
+    file: "app/api/downloads/editions/[edition]/[file]/route.ts",
+    url: "/api/downloads/editions/no-such-edition/d18O-annual.tif",
+    expect: api.plans(DOWNLOAD_PLANS, 404),
+    note: "plan checked before the edition is looked up: Open → 403, paid plans → 404 for an unknown edition",
   },
   { file: "app/api/jobs/[id]/cancel/route.ts", url: "/api/jobs/no-such-job/cancel", method: "POST", expect: api.roles(["moderator", "admin"], 404) },
 

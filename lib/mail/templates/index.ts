@@ -1,7 +1,17 @@
 import { accountExists } from "./account-exists";
+import {
+  billingCancellationScheduled,
+  billingCancellationWithdrawn,
+  billingPaymentFailed,
+  billingPaymentReceived,
+  billingPlanChanged,
+  billingSubscriptionEnded,
+  billingSubscriptionStarted,
+} from "./billing";
 import { magicLink } from "./magic-link";
 import { passwordReset } from "./password-reset";
 import { roleChanged } from "./role-changed";
+import { seatInvitation } from "./seat-invitation";
 import { verifyEmail } from "./verify-email";
 import type { RenderedMail } from "./layout";
 
@@ -14,6 +24,14 @@ export const templates = {
   "password-reset": passwordReset,
   "role-changed": roleChanged,
   "account-exists": accountExists,
+  "billing-subscription-started": billingSubscriptionStarted,
+  "billing-payment-received": billingPaymentReceived,
+  "billing-plan-changed": billingPlanChanged,
+  "billing-cancellation-scheduled": billingCancellationScheduled,
+  "billing-cancellation-withdrawn": billingCancellationWithdrawn,
+  "billing-payment-failed": billingPaymentFailed,
+  "billing-subscription-ended": billingSubscriptionEnded,
+  "seat-invitation": seatInvitation,
 } satisfies Record<string, (data: never) => RenderedMail>;
 
 export type TemplateName = keyof typeof templates;

@@ -1,7 +1,12 @@
+import { installBillingMail } from "@/lib/billing/mail";
 import { handleStripeWebhook, WebhookSignatureError } from "@/lib/billing/webhook";
 
 export const dynamic = "force-dynamic";
 export const runtime = "nodejs";
+
+// Billing notices (receipts, plan changes, failed payments, …) go out by e-mail,
+// queued inside the transaction that records each event.
+installBillingMail();
 
 const problem = (status: number, type: string, title: string, detail: string) =>
   new Response(JSON.stringify({ type, title, status, detail }), {
