@@ -396,7 +396,9 @@ export async function acceptInvitation(viewer: Viewer, token: string): Promise<{
       if (!seats)
         throw errors.conflict(`${row.orgName} has no active Institution subscription at the moment, so there is no seat to take. Ask its owner.`);
       if (seats.members >= seats.seats)
-        throw errors.conflict(`All ${seats.seats} seats of ${row.orgName} are taken. Ask its owner to add a seat, then open this link again.`);
+        throw errors.conflict(
+          `${seats.seats === 1 ? "The only seat" : `All ${seats.seats} seats`} of ${row.orgName} ${seats.seats === 1 ? "is" : "are"} taken. Ask its owner to add a seat, then open this link again.`,
+        );
       await tx.insert(memberships).values({ organizationId: inv.organizationId, userId: viewer.id, role: "member" });
     }
     await tx.update(invitations).set({ acceptedAt: new Date() }).where(eq(invitations.id, inv.id));

@@ -67,6 +67,25 @@ describe("the /dev/mailbox source", () => {
   });
 });
 
+const billingCommon = { name: "Noor", organization: null, planName: "Researcher", interval: "month", seats: null } as const;
+const billingInvoice = {
+  number: "RPS-00001",
+  amountCents: 1900,
+  currency: "eur",
+  periodStart: "2026-01-01T00:00:00Z",
+  periodEnd: "2026-02-01T00:00:00Z",
+  hostedUrl: "https://x.example/invoice/in_1",
+};
+const billingSamples = {
+  "billing-subscription-started": { ...billingCommon, renewsAt: "2026-02-01T00:00:00Z" },
+  "billing-payment-received": { ...billingCommon, invoice: billingInvoice },
+  "billing-plan-changed": { ...billingCommon, organization: "Lakeshore Basin", planName: "Institution", seats: 3, before: { planName: "Institution", interval: "month", seats: 5 } },
+  "billing-cancellation-scheduled": { ...billingCommon, endsAt: "2026-02-01T00:00:00Z" },
+  "billing-cancellation-withdrawn": { ...billingCommon, renewsAt: "2026-02-01T00:00:00Z" },
+  "billing-payment-failed": { ...billingCommon, invoice: billingInvoice, graceUntil: "2026-02-08T00:00:00Z", nextAttemptAt: "2026-02-04T00:00:00Z" },
+  "billing-subscription-ended": { ...billingCommon, reason: "payment-failed" },
+} as const;
+
 describe("templates", () => {
   it("every template renders a subject, real HTML and plain text without external images", () => {
     const samples = {
@@ -75,6 +94,8 @@ describe("templates", () => {
       "password-reset": { name: null, url: "https://x.example/reset?token=abc", expiresMinutes: 60 },
       "role-changed": { name: "Ada", from: "contributor", to: "moderator", reason: "<b>trusted</b>" },
       "account-exists": { signInUrl: "https://x.example/sign-in", resetUrl: "https://x.example/reset-password" },
+      ...billingSamples,
+      "seat-invitation": { organization: "Lakeshore Basin", inviterName: "Greta", url: "https://x.example/invitations/accept?token=abc", expiresDays: 14 },
     } as const;
     expect(Object.keys(samples).sort()).toEqual(Object.keys(templates).sort());
     for (const [name, data] of Object.entries(samples)) {
