@@ -17,7 +17,7 @@ export const DATA_LICENCE = {
 
 /** How to credit a download (ASCII only: it also goes into GeoTIFF tags). */
 export const CREDIT_LINE =
-  "Credit the station operators and contributors named in this file and Rainprint (rainprint precipitation isotope service).";
+  "credit the station operators and contributors named in this file, and Rainprint";
 
 /** The label every piece of invented demo data carries. */
 export const SYNTHETIC_LABEL = "synthetic demo data";

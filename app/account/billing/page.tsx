@@ -172,7 +172,10 @@ export default async function BillingPage() {
         )}
         <div className="flex flex-wrap gap-3">
           {personal.hasBillingAccount ? <ManageButton label="Manage billing — change, cancel, card, invoices" /> : null}
-          {!personal.hasLiveSubscription ? (
+          {!personal.hasLiveSubscription && viewer.planSource === "organization" ? (
+            <p className="text-sm text-ink-700">Your organisation&apos;s Institution plan already covers everything Researcher offers.</p>
+          ) : null}
+          {!personal.hasLiveSubscription && viewer.planSource !== "organization" ? (
             <>
               <ActionForm action={checkoutAction} submitLabel="Subscribe to Researcher, monthly" testId="billing-checkout-month">
                 <input type="hidden" name="plan" value="researcher" />
