@@ -120,6 +120,28 @@ describe("subscribe → use → cancel → lapse, in the browser", () => {
     });
   });
 
+  it("the return page copes with a late webhook: it waits, then shows the plan once the webhook lands", async () => {
+    const person = await makeAccount("late-webhook");
+    await withBrowser("billing-late-webhook", async (page) => {
+      await signIn(page, person.email, person.password, "/pricing");
+      await standin("/webhooks/hold", {});
+      try {
+        await page.getByTestId("checkout-researcher").getByRole("button", { name: /Subscribe/ }).click();
+        await page.waitForURL(/\/pay\/cs_test_/);
+        await page.getByRole("button", { name: "Pay €19.00" }).click();
+        await page.waitForURL(/\/pricing\/success\?session=cs_test_/);
+        expect(await page.getByTestId("checkout-status").getAttribute("data-status")).toBe("waiting");
+        await page.getByText("This page updates by itself.").waitFor();
+        expect(await planInBrowser(page)).toBe("open");
+      } finally {
+        await standin("/webhooks/release", {});
+      }
+      // No reload by the test: the page refreshes itself until the plan shows.
+      await page.getByRole("heading", { name: "The Researcher plan is active" }).waitFor({ timeout: 30_000 });
+      expect(await planInBrowser(page)).toBe("researcher");
+    });
+  });
+
   it("cancelling on the pay page changes nothing and says so", async () => {
     const person = await makeAccount("canceller");
     await withBrowser("billing-cancel-checkout", async (page) => {
