@@ -13,6 +13,7 @@ const viewer = (plan: Viewer["plan"]): Viewer => ({
   role: "contributor",
   plan,
   planSource: plan === "open" ? "none" : "subscription",
+  planOrganizationId: null,
   organizations: [],
 });
 

@@ -22,7 +22,7 @@ vi.mock("@/lib/downloads/editions", async (importOriginal) => ({
   readSurfacePlane: async (editionId: string, variable: string, period: number) => state.planes.get(`${editionId}/${variable}/${period}`) ?? null,
 }));
 
-const viewer = (plan: Viewer["plan"]): Viewer => ({ id: "u", email: "u@x.example", name: null, role: "contributor", plan, planSource: "subscription", organizations: [] });
+const viewer = (plan: Viewer["plan"]): Viewer => ({ id: "u", email: "u@x.example", name: null, role: "contributor", plan, planSource: "subscription", planOrganizationId: null, organizations: [] });
 
 const grid = { lon0: 100.125, lat0: -10.125, dLon: 0.25, dLat: 0.25, nx: 4, ny: 3 };
 const values = new Float32Array([-4, -4.5, Number.NaN, -5, -6, -6.5, -7, -7.5, -8, -8.5, -9, -9.5]);
