@@ -1,0 +1,141 @@
+/**
+ * Several surfaces (kriging models on one StationSet) over the same targets: per block of
+ * targets the neighbour search and target → station distances are done once and every model
+ * only solves its own system. Used for site-lookup batches, by the grid workers and by the CLI.
+ */
+import { GeostatsError } from "./errors";
+import { type GridSpec, gridCellCentres } from "./grid";
+import { type KrigingEvaluator, type KrigingModel, readTargetDrift } from "./kriging";
+import { type NeighbourSearcher, type NeighbourTable, type PointsInput, type StationSet, readPoints } from "./stations";
+
+/** Where the targets come from: explicit points, or the cells of a grid. */
+export type TargetSource = { kind: "points"; xy: Float64Array } | { kind: "grid"; grid: GridSpec };
+
+export interface SurfaceOutput {
+  value: Float64Array | Float32Array;
+  variance: Float64Array | Float32Array | null;
+}
+
+const BLOCK = 256;
+
+export class SurfaceBatch {
+  readonly stations: StationSet;
+  readonly models: readonly KrigingModel[];
+  private readonly evaluators: KrigingEvaluator[];
+  private readonly searcher: NeighbourSearcher;
+  private readonly kLocal: number;
+  private readonly anyGlobal: boolean;
+  private readonly blockXY: Float64Array;
+  private readonly table: NeighbourTable | null;
+  private readonly rows: Float64Array | null;
+
+  constructor(models: readonly KrigingModel[], searcher?: NeighbourSearcher) {
+    if (models.length === 0) throw new GeostatsError("invalid-input", "at least one model is needed", "models");
+    const stations = models[0].stations;
+    for (const m of models) {
+      if (m.stations !== stations) {
+        throw new GeostatsError("invalid-input", "all models of a batch must share one StationSet (pass `stations` to createKrigingModel)", "models");
+      }
+    }
+    this.stations = stations;
+    this.models = models;
+    this.searcher = searcher ?? stations.searcher();
+    this.evaluators = models.map((m) => {
+      const e = m.createEvaluator();
+      e.setSearcher(this.searcher);
+      return e;
+    });
+    this.kLocal = Math.max(0, ...models.filter((m) => !m.isGlobal).map((m) => m.neighbourCount));
+    this.anyGlobal = models.some((m) => m.isGlobal);
+    this.blockXY = new Float64Array(2 * BLOCK);
+    const n = stations.count;
+    this.table = this.kLocal > 0 ? { targets: BLOCK, k: this.kLocal, index: new Int32Array(BLOCK * this.kLocal), distance: new Float64Array(BLOCK * this.kLocal) } : null;
+    this.rows = this.anyGlobal ? new Float64Array(BLOCK * n) : null;
+  }
+
+  /** Factorisations done / reused so far, summed over the models. */
+  cacheStats(): { factorisations: number; reuses: number } {
+    let f = 0;
+    let r = 0;
+    for (const e of this.evaluators) {
+      f += e.factorisations;
+      r += e.reuses;
+    }
+    return { factorisations: f, reuses: r };
+  }
+
+  /**
+   * Predict targets [from, to) for every model. `drifts[i]` holds model i's target covariates
+   * (targets × q, absolute index) or null; `outputs[i]` receives model i's planes at
+   * [outOffset + t − from]. Masked targets (mask[t] = 0) get NaN.
+   */
+  run(
+    source: TargetSource,
+    from: number,
+    to: number,
+    drifts: readonly (Float64Array | null)[],
+    outputs: readonly SurfaceOutput[],
+    outOffset = 0,
+    mask: Uint8Array | null = null,
+  ): void {
+    const n = this.stations.count;
+    for (let b = from; b < to; b += BLOCK) {
+      const e = Math.min(to, b + BLOCK);
+      let xy: Float64Array;
+      let xyBase: number;
+      if (source.kind === "grid") {
+        gridCellCentres(source.grid, b, e, this.blockXY);
+        xy = this.blockXY;
+        xyBase = b;
+      } else {
+        xy = source.xy;
+        xyBase = 0;
+      }
+      // neighbours and distances once per target for all models
+      for (let t = b; t < e; t++) {
+        if (mask && mask[t] === 0) continue;
+        const x = xy[2 * (t - xyBase)];
+        const y = xy[2 * (t - xyBase) + 1];
+        if (this.table) this.searcher.nearest(x, y, this.kLocal, this.table.index, this.table.distance, (t - b) * this.kLocal);
+        if (this.rows) this.searcher.all(x, y, this.rows, (t - b) * n);
+      }
+      for (let i = 0; i < this.models.length; i++) {
+        const out = outputs[i];
+        this.evaluators[i].run({
+          xy,
+          xyBase,
+          from: b,
+          to: e,
+          drift: drifts[i] ?? null,
+          table: this.table,
+          rows: this.rows,
+          base: b,
+          value: out.value,
+          variance: out.variance,
+          outOffset: outOffset + b - from,
+          mask,
+        });
+      }
+    }
+  }
+}
+
+/**
+ * Predict several surfaces at many targets, sharing the neighbour search: returns one
+ * {value, variance} pair of planes per model. `drifts[i]` gives model i's target covariates
+ * (rows of q numbers or a flat targets × q array) when it has drift.
+ */
+export function predictSurfaces(
+  models: readonly KrigingModel[],
+  targets: PointsInput,
+  options: { drifts?: readonly (ArrayLike<ArrayLike<number>> | Float64Array | Float32Array | null | undefined)[]; variance?: boolean; precision?: "float64" | "float32" } = {},
+): SurfaceOutput[] {
+  const xy = targets instanceof Float64Array ? targets : readPoints(targets, "targets");
+  const t = xy.length >> 1;
+  const Arr = options.precision === "float32" ? Float32Array : Float64Array;
+  const wantVar = options.variance ?? true;
+  const drifts = models.map((m, i) => readTargetDrift(options.drifts?.[i] ?? undefined, t, m.driftCovariates));
+  const outputs = models.map(() => ({ value: new Arr(t), variance: wantVar ? new Arr(t) : null }));
+  new SurfaceBatch(models).run({ kind: "points", xy }, 0, t, drifts, outputs);
+  return outputs;
+}

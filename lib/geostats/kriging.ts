@@ -1,0 +1,778 @@
+/**
+ * Ordinary and universal kriging (kriging with external drift) on a StationSet, global or
+ * n-nearest neighbourhood, in gstat's conventions:
+ *
+ *   prediction  ẑ(x0) = f0ᵀβ + c0ᵀ C⁻¹ (z − Fβ),  β = (FᵀC⁻¹F)⁻¹ FᵀC⁻¹ z  (GLS trend)
+ *   variance    σ²(x0) = C(0) − c0ᵀC⁻¹c0 + (f0 − FᵀC⁻¹c0)ᵀ (FᵀC⁻¹F)⁻¹ (f0 − FᵀC⁻¹c0)
+ *
+ * with C(0) = nugget + psill, covariances C(h) = sill − γ(h) and F = [1, covariates] (the
+ * intercept is implied; ordinary kriging is F = 1) — Cressie (1993), Statistics for Spatial
+ * Data, §3.4 [mem]; the same expressions as gstat's gls.c (Christensen 1991; Ver Hoef & Cressie
+ * 1993) [pub].
+ *
+ * Numerics: Cholesky C = LLᵀ of the covariance block and a bordered solve with Q = L⁻¹F,
+ * M = QᵀQ = RRᵀ. Per neighbour set we precompute β and the residual weights r = C⁻¹(z − Fβ), so a
+ * prediction is f0ᵀβ + c0ᵀr (no solve) and the variance needs one triangular solve a = L⁻¹c0:
+ * σ² = C(0) − aᵀa + uᵀu with u = R⁻¹(f0 − Qᵀa). Factorised systems are cached per neighbour set
+ * (adjacent grid cells usually share one), so most cells only form their right-hand side.
+ */
+import { type CoordinateSystem } from "./distance";
+import { GeostatsError } from "./errors";
+import { backSolve, cholesky, dot, forwardSolve, forwardSolve4 } from "./linalg";
+import { type NeighbourSearcher, type NeighbourTable, type PointsInput, StationSet, readPoints } from "./stations";
+import { type VariogramModel, checkVariogram, covariance, readDrift, readValues } from "./variogram";
+
+export interface KrigingModelOptions {
+  /** A shared StationSet, or coordinates + points. */
+  stations?: StationSet;
+  coordinates?: CoordinateSystem;
+  points?: PointsInput;
+  /** One value per station. */
+  values: ArrayLike<number>;
+  variogram: VariogramModel;
+  /** Use the n nearest stations (gstat's nmax); omit/null for the global neighbourhood. */
+  maxNeighbors?: number | null;
+  /**
+   * Universal kriging / kriging with external drift: covariates per station (no intercept column;
+   * the intercept is implied), e.g. [|lat|, lat², elevation]. Targets then need the same covariates.
+   */
+  drift?: { points: ArrayLike<ArrayLike<number>> };
+}
+
+export interface NeighbourWeight {
+  /** Station index. */
+  index: number;
+  /** Distance from the target (km for lonlat, coordinate units for planar). */
+  distance: number;
+  /** Kriging weight of the station's value in the prediction. */
+  weight: number;
+}
+
+export interface KrigingPrediction {
+  value: number;
+  /** Kriging variance (value units squared), ≥ 0; nugget included (gstat's convention). */
+  variance: number;
+  distanceUnit: "km" | "coordinate";
+  /** The stations used, nearest first, with their kriging weights. */
+  neighbours: NeighbourWeight[];
+}
+
+export interface PredictManyOptions {
+  /** Drift covariates per target: rows of q numbers, or a flat array (targets × q, row-major). */
+  drift?: ArrayLike<ArrayLike<number>> | Float64Array | Float32Array;
+  /** Precomputed neighbours (from the model's StationSet, k ≥ the model's maxNeighbors). */
+  neighbours?: NeighbourTable;
+  /** Compute variances (default true). */
+  variance?: boolean;
+  /** Output arrays: "float64" (default) or "float32". */
+  precision?: "float64" | "float32";
+}
+
+export interface PredictionPlanes {
+  value: Float64Array | Float32Array;
+  variance: Float64Array | Float32Array | null;
+}
+
+/** Arguments of KrigingEvaluator.run. Target indices are absolute (into `xy`, `drift`, `mask`). */
+export interface RunArgs {
+  /** Interleaved target coordinates; target t is at xy[2(t − xyBase)]. */
+  xy: Float64Array;
+  /** Target index of the first point in `xy` (default 0). */
+  xyBase?: number;
+  from: number;
+  to: number;
+  /** Drift covariates, targets × q row-major (absolute target index), or null. */
+  drift: Float64Array | null;
+  /** Neighbour table for local models; row = t − base. */
+  table: NeighbourTable | null;
+  /** Distances to all stations (targets × n, index order) for global models; row = t − base. */
+  rows: Float64Array | null;
+  /** Target index of the first row of `table`/`rows` (default `from`). */
+  base?: number;
+  value: Float64Array | Float32Array;
+  variance: Float64Array | Float32Array | null;
+  /** Output index of target `from`. */
+  outOffset: number;
+  /** Optional mask (absolute target index): 0 = skip (NaN). */
+  mask?: Uint8Array | null;
+}
+
+const MODEL_TYPES = { spherical: 0, exponential: 1, gaussian: 2 } as const;
+
+// local bindings of the hot kernels (direct calls the JIT can inline, whatever the module format)
+const chol = cholesky;
+const fwd = forwardSolve;
+const fwd4 = forwardSolve4;
+const bwd = backSolve;
+const dotp = dot;
+
+/** A factorised kriging system for one neighbour set (stations in ascending index order). */
+class NeighbourSystem {
+  m = 0;
+  readonly cap: number;
+  readonly p: number;
+  readonly idx: Int32Array;
+  /** Cholesky factor of the covariance block, lower triangle, row stride `cap`. */
+  readonly L: Float64Array;
+  /** 1 / L_ii. */
+  readonly invDiag: Float64Array;
+  /** Q = L⁻¹F, column-major: column c at [c·cap, c·cap + m). */
+  readonly Q: Float64Array;
+  /** Cholesky factor of QᵀQ, p × p. */
+  readonly R: Float64Array;
+  /** GLS trend coefficients. */
+  readonly beta: Float64Array;
+  /** Residual weights C⁻¹(z − Fβ). */
+  readonly r: Float64Array;
+  valid = false;
+
+  constructor(cap: number, p: number) {
+    this.cap = cap;
+    this.p = p;
+    this.idx = new Int32Array(cap);
+    this.L = new Float64Array(cap * cap);
+    this.invDiag = new Float64Array(cap);
+    this.Q = new Float64Array(cap * p);
+    this.R = new Float64Array(p * p);
+    this.beta = new Float64Array(p);
+    this.r = new Float64Array(cap);
+  }
+}
+
+const CACHE_SLOTS = 256;
+
+export class KrigingModel {
+  readonly stations: StationSet;
+  readonly values: Float64Array;
+  readonly variogram: VariogramModel;
+  /** n-nearest neighbourhood size, or null for the global neighbourhood. */
+  readonly maxNeighbors: number | null;
+  /** Number of drift covariates q (0 = ordinary kriging); the system has p = q + 1 trend terms. */
+  readonly driftCovariates: number;
+  /** Drift design matrix [1, covariates] per station, row-major n × p. */
+  readonly design: Float64Array;
+  /** C(0) = nugget + psill. */
+  readonly sill: number;
+  private cov: Float64Array | null = null;
+  private globalSystem: NeighbourSystem | null = null;
+  private defaultEvaluator: KrigingEvaluator | null = null;
+
+  constructor(options: KrigingModelOptions) {
+    this.stations =
+      options.stations ??
+      new StationSet({
+        coordinates: options.coordinates as CoordinateSystem,
+        points: options.points ?? [],
+      });
+    const n = this.stations.count;
+    this.values = readValues(options.values, n);
+    this.variogram = checkVariogram(options.variogram);
+    this.sill = this.variogram.nugget + this.variogram.psill;
+    if (options.drift) {
+      const { matrix, q } = readDrift(options.drift.points, n, "drift.points");
+      this.design = matrix;
+      this.driftCovariates = q;
+    } else {
+      this.design = new Float64Array(n).fill(1);
+      this.driftCovariates = 0;
+    }
+    const p = this.driftCovariates + 1;
+    const mn = options.maxNeighbors;
+    if (mn !== undefined && mn !== null) {
+      if (!Number.isInteger(mn) || mn < 1) {
+        throw new GeostatsError("invalid-input", "maxNeighbors must be a positive integer", "maxNeighbors");
+      }
+      if (mn < p) {
+        throw new GeostatsError("too-few-points", `maxNeighbors (${mn}) must be at least the number of drift terms (${p}: intercept + ${p - 1} covariates)`, "maxNeighbors");
+      }
+    }
+    this.maxNeighbors = mn === undefined || mn === null || mn >= n ? null : mn;
+    if (n < p) {
+      throw new GeostatsError("too-few-points", `points: ${n} stations are too few for ${p} drift terms (intercept + ${p - 1} covariates)`, "points");
+    }
+    const dups = this.stations.duplicatePairs(3);
+    if (dups.length > 0) {
+      const list = dups.map(([i, j]) => `${i} and ${j}`).join(", ");
+      throw new GeostatsError(
+        "duplicate-locations",
+        `points: stations ${list} are at the same location; the kriging system is singular — merge or average them first`,
+        "points",
+      );
+    }
+  }
+
+  get coordinates(): CoordinateSystem {
+    return this.stations.coordinates;
+  }
+
+  /** Neighbours used per prediction. */
+  get neighbourCount(): number {
+    return this.maxNeighbors ?? this.stations.count;
+  }
+
+  get isGlobal(): boolean {
+    return this.maxNeighbors === null;
+  }
+
+  /** Station × station covariance matrix (n × n), computed once from the shared distances. */
+  covarianceMatrix(): Float64Array {
+    if (this.cov) return this.cov;
+    const n = this.stations.count;
+    const d = this.stations.distanceMatrix();
+    const c = new Float64Array(n * n);
+    const v = this.variogram;
+    for (let i = 0; i < n * n; i++) c[i] = covariance(v, d[i]);
+    for (let i = 0; i < n; i++) c[i * n + i] = this.sill;
+    this.cov = c;
+    return c;
+  }
+
+  /** The factorised global system (all stations). */
+  global(): NeighbourSystem {
+    if (!this.globalSystem) {
+      const n = this.stations.count;
+      const sys = new NeighbourSystem(n, this.driftCovariates + 1);
+      for (let i = 0; i < n; i++) sys.idx[i] = i;
+      factorise(this, sys, n, new Float64Array(n));
+      this.globalSystem = sys;
+    }
+    return this.globalSystem;
+  }
+
+  /** A per-thread evaluator with its own caches and scratch buffers. */
+  createEvaluator(): KrigingEvaluator {
+    return new KrigingEvaluator(this);
+  }
+
+  private evaluator(): KrigingEvaluator {
+    if (!this.defaultEvaluator) this.defaultEvaluator = new KrigingEvaluator(this);
+    return this.defaultEvaluator;
+  }
+
+  /** Predict at one target, with the stations used and their kriging weights. */
+  predict(x: number, y: number, driftTarget?: ArrayLike<number>): KrigingPrediction {
+    return this.evaluator().predictOne(x, y, driftTarget);
+  }
+
+  /**
+   * Predict at many targets ([x, y] pairs or interleaved). Pass `neighbours` (a table from the
+   * shared StationSet) to reuse one neighbour search across several models.
+   */
+  predictMany(targets: PointsInput, options: PredictManyOptions = {}): PredictionPlanes {
+    const xy = targets instanceof Float64Array ? targets : readPoints(targets, "targets");
+    const t = xy.length >> 1;
+    const wantVar = options.variance ?? true;
+    const Arr = options.precision === "float32" ? Float32Array : Float64Array;
+    const out: PredictionPlanes = { value: new Arr(t), variance: wantVar ? new Arr(t) : null };
+    const drift = readTargetDrift(options.drift, t, this.driftCovariates);
+    this.evaluator().run({ xy, from: 0, to: t, drift, table: options.neighbours ?? null, rows: null, value: out.value, variance: out.variance, outOffset: 0 });
+    return out;
+  }
+}
+
+export function createKrigingModel(options: KrigingModelOptions): KrigingModel {
+  return new KrigingModel(options);
+}
+
+/** Drift covariates per target into a flat row-major Float64Array (targets × q), checked. */
+export function readTargetDrift(
+  drift: ArrayLike<ArrayLike<number>> | Float64Array | Float32Array | undefined,
+  t: number,
+  q: number,
+): Float64Array | null {
+  if (q === 0) return null;
+  if (!drift) throw new GeostatsError("invalid-input", `drift.targets: the model has ${q} drift covariates; give them for every target`, "drift.targets");
+  if (drift instanceof Float64Array || drift instanceof Float32Array) {
+    if (drift.length !== t * q) throw new GeostatsError("invalid-input", `drift.targets must have ${t} × ${q} numbers`, "drift.targets");
+    const out = drift instanceof Float64Array ? drift : Float64Array.from(drift);
+    for (let i = 0; i < out.length; i++) {
+      if (!Number.isFinite(out[i])) throw new GeostatsError("invalid-input", `drift.targets[${Math.floor(i / q)}] has a non-finite covariate`, "drift.targets");
+    }
+    return out;
+  }
+  const { matrix } = readDrift(drift as ArrayLike<ArrayLike<number>>, t, "drift.targets", q);
+  const out = new Float64Array(t * q);
+  for (let i = 0; i < t; i++) for (let j = 0; j < q; j++) out[i * q + j] = matrix[i * (q + 1) + j + 1];
+  return out;
+}
+
+/**
+ * Factorise the kriging system of `sys.idx[0 … m)` (ascending station indices). Throws a
+ * GeostatsError naming the cause when the system is singular.
+ */
+function factorise(model: KrigingModel, sys: NeighbourSystem, m: number, scratch: Float64Array): void {
+  sys.valid = false;
+  sys.m = m;
+  const n = model.stations.count;
+  const cap = sys.cap;
+  const p = sys.p;
+  const C = model.covarianceMatrix();
+  const L = sys.L;
+  const idx = sys.idx;
+  for (let i = 0; i < m; i++) {
+    const row = idx[i] * n;
+    const li = i * cap;
+    for (let j = 0; j <= i; j++) L[li + j] = C[row + idx[j]];
+  }
+  const bad = chol(L, m, cap);
+  if (bad >= 0) throw diagnoseSingular(model, sys, m, bad);
+  for (let i = 0; i < m; i++) sys.invDiag[i] = 1 / L[i * cap + i];
+  if (m < p) {
+    throw new GeostatsError("too-few-points", `only ${m} stations for ${p} drift terms (intercept + ${p - 1} covariates)`, "maxNeighbors");
+  }
+  // Q = L⁻¹F (column-major)
+  const F = model.design;
+  const Q = sys.Q;
+  for (let c = 0; c < p; c++) {
+    const off = c * cap;
+    for (let i = 0; i < m; i++) Q[off + i] = F[idx[i] * p + c];
+    fwd(L, m, cap, Q, off);
+  }
+  // M = QᵀQ → R
+  const R = sys.R;
+  for (let a = 0; a < p; a++) {
+    for (let b = 0; b <= a; b++) {
+      let s = 0;
+      const oa = a * cap;
+      const ob = b * cap;
+      for (let i = 0; i < m; i++) s += Q[oa + i] * Q[ob + i];
+      R[a * p + b] = s;
+    }
+  }
+  if (chol(R, p, p, 1e-12) >= 0) {
+    throw new GeostatsError(
+      "singular-drift",
+      p === 1
+        ? "the kriging system is singular"
+        : `drift: the covariates are collinear (or constant) among the ${m} stations used — drop a covariate or widen maxNeighbors`,
+      "drift.points",
+    );
+  }
+  // y = L⁻¹z, β = M⁻¹Qᵀy, r = L⁻ᵀ(y − Qβ)
+  const y = scratch;
+  const z = model.values;
+  for (let i = 0; i < m; i++) y[i] = z[idx[i]];
+  fwd(L, m, cap, y, 0);
+  const beta = sys.beta;
+  for (let c = 0; c < p; c++) {
+    let s = 0;
+    const off = c * cap;
+    for (let i = 0; i < m; i++) s += Q[off + i] * y[i];
+    beta[c] = s;
+  }
+  fwd(R, p, p, beta, 0);
+  bwd(R, p, p, beta, 0);
+  const r = sys.r;
+  for (let i = 0; i < m; i++) {
+    let s = y[i];
+    for (let c = 0; c < p; c++) s -= Q[c * cap + i] * beta[c];
+    r[i] = s;
+  }
+  bwd(L, m, cap, r, 0);
+  sys.valid = true;
+}
+
+function diagnoseSingular(model: KrigingModel, sys: NeighbourSystem, m: number, row: number): GeostatsError {
+  const set = model.stations;
+  for (let i = 0; i < m; i++) {
+    for (let j = 0; j < i; j++) {
+      if (set.stationDistance(sys.idx[i], sys.idx[j]) === 0) {
+        return new GeostatsError("duplicate-locations", `points: stations ${sys.idx[j]} and ${sys.idx[i]} are at the same location`, "points");
+      }
+    }
+  }
+  const hint =
+    model.variogram.nugget === 0
+      ? " (stations very close together and a variogram without nugget; a gaussian model without nugget is especially prone to this — add a small nugget)"
+      : "";
+  return new GeostatsError(
+    "ill-conditioned",
+    `the covariance matrix is numerically singular at station ${sys.idx[row]}${hint}`,
+    "variogram",
+  );
+}
+
+/**
+ * Evaluates a model at many targets with a cache of factorised neighbour systems and scratch
+ * buffers (one evaluator per thread; nothing is allocated per target).
+ */
+export class KrigingEvaluator {
+  readonly model: KrigingModel;
+  private readonly k: number;
+  private readonly p: number;
+  private readonly slots: (NeighbourSystem | null)[];
+  private readonly slotHash: Int32Array;
+  private readonly sortIdx: Int32Array;
+  private readonly sortDist: Float64Array;
+  private readonly c0: Float64Array;
+  private readonly a: Float64Array;
+  private readonly u: Float64Array;
+  private readonly f0: Float64Array;
+  private readonly rowIdx: Int32Array;
+  private readonly rowDist: Float64Array;
+  private readonly scratch: Float64Array;
+  /** Four interleaved right-hand sides (global neighbourhood), 4·n. */
+  private readonly block4: Float64Array;
+  /** Distances of four targets to all stations (global neighbourhood without precomputed rows), 4·n. */
+  private readonly rows4: Float64Array;
+  private searcher: NeighbourSearcher | null = null;
+  /** Statistics: how many neighbour systems were factorised / reused. */
+  factorisations = 0;
+  reuses = 0;
+
+  constructor(model: KrigingModel) {
+    this.model = model;
+    const n = model.stations.count;
+    this.k = model.neighbourCount;
+    this.p = model.driftCovariates + 1;
+    this.slots = new Array(model.isGlobal ? 0 : CACHE_SLOTS).fill(null);
+    this.slotHash = new Int32Array(CACHE_SLOTS);
+    const cap = Math.max(this.k, 1);
+    this.sortIdx = new Int32Array(cap);
+    this.sortDist = new Float64Array(cap);
+    this.c0 = new Float64Array(n);
+    this.a = new Float64Array(n);
+    this.u = new Float64Array(this.p);
+    this.f0 = new Float64Array(this.p);
+    this.rowIdx = new Int32Array(cap);
+    this.rowDist = new Float64Array(n);
+    this.scratch = new Float64Array(n);
+    this.block4 = new Float64Array(model.isGlobal ? 4 * n : 0);
+    this.rows4 = new Float64Array(model.isGlobal ? 4 * n : 0);
+  }
+
+  private neighbourSearcher(): NeighbourSearcher {
+    if (!this.searcher) this.searcher = this.model.stations.searcher();
+    return this.searcher;
+  }
+
+  /** Use a given searcher (e.g. one per worker thread). */
+  setSearcher(s: NeighbourSearcher): void {
+    this.searcher = s;
+  }
+
+  /**
+   * Predict targets [from, to) of the interleaved `xy` (see RunArgs). Masked targets get NaN.
+   */
+  run(args: RunArgs): void {
+    const { xy, from, to, drift, table, rows, value, variance, outOffset, mask } = args;
+    const base = args.base ?? from;
+    const xyBase = args.xyBase ?? 0;
+    const model = this.model;
+    const q = model.driftCovariates;
+    const f0 = this.f0;
+    f0[0] = 1;
+    if (table && table.k < this.k && !model.isGlobal) {
+      throw new GeostatsError("invalid-input", `the neighbour table has ${table.k} neighbours per target; the model needs ${this.k}`, "neighbours");
+    }
+    const n = model.stations.count;
+    const wantVar = variance !== null;
+    if (model.isGlobal) {
+      // unmasked targets in groups of four
+      const group = [0, 0, 0, 0];
+      let g = 0;
+      const flush = (): void => {
+        if (g === 0) return;
+        // distances of the (not necessarily consecutive) targets to all stations, into rows4
+        for (let b = 0; b < g; b++) {
+          const t = group[b];
+          if (rows) this.rows4.set(rows.subarray((t - base) * n, (t - base + 1) * n), b * n);
+          else this.neighbourSearcher().all(xy[2 * (t - xyBase)], xy[2 * (t - xyBase) + 1], this.rows4, b * n);
+        }
+        this.evaluateGroup(group, g, drift, value, variance, outOffset, from);
+        g = 0;
+      };
+      for (let t = from; t < to; t++) {
+        if (mask && mask[t] === 0) {
+          value[outOffset + t - from] = NaN;
+          if (variance) variance[outOffset + t - from] = NaN;
+          continue;
+        }
+        group[g++] = t;
+        if (g === 4) flush();
+      }
+      flush();
+      return;
+    }
+    for (let t = from; t < to; t++) {
+      const o = outOffset + t - from;
+      if (mask && mask[t] === 0) {
+        value[o] = NaN;
+        if (variance) variance[o] = NaN;
+        continue;
+      }
+      if (q > 0) for (let j = 0; j < q; j++) f0[j + 1] = (drift as Float64Array)[t * q + j];
+      let idx: Int32Array;
+      let dist: Float64Array;
+      let off: number;
+      if (table) {
+        idx = table.index;
+        dist = table.distance;
+        off = (t - base) * table.k;
+      } else {
+        this.neighbourSearcher().nearest(xy[2 * (t - xyBase)], xy[2 * (t - xyBase) + 1], this.k, this.rowIdx, this.rowDist, 0);
+        idx = this.rowIdx;
+        dist = this.rowDist;
+        off = 0;
+      }
+      this.evaluate(this.localSystem(idx, dist, off), this.sortDist, wantVar);
+      value[o] = this.outValue;
+      if (variance) variance[o] = this.outVariance;
+    }
+  }
+
+  /** Up to four (not necessarily consecutive) targets of a global model; their rows are in rows4. */
+  private evaluateGroup(
+    group: number[],
+    g: number,
+    drift: Float64Array | null,
+    value: Float64Array | Float32Array,
+    variance: Float64Array | Float32Array | null,
+    outOffset: number,
+    from: number,
+  ): void {
+    const sys = this.model.global();
+    const n = sys.m;
+    const p = sys.p;
+    const q = p - 1;
+    const X = this.block4;
+    if (g < 4) X.fill(0);
+    const beta = sys.beta;
+    const r = sys.r;
+    for (let b = 0; b < g; b++) {
+      const t = group[b];
+      this.covariances(this.rows4, b * n, n, X, 4, b);
+      let v = beta[0];
+      for (let j = 0; j < q; j++) v += (drift as Float64Array)[t * q + j] * beta[j + 1];
+      let s = 0;
+      for (let i = 0; i < n; i++) s += X[4 * i + b] * r[i];
+      value[outOffset + t - from] = v + s;
+    }
+    if (!variance) return;
+    fwd4(sys.L, sys.invDiag, n, sys.cap, X);
+    const f0 = this.f0;
+    for (let b = 0; b < g; b++) {
+      const t = group[b];
+      let aa = 0;
+      for (let i = 0; i < n; i++) {
+        const ai = X[4 * i + b];
+        aa += ai * ai;
+      }
+      f0[0] = 1;
+      for (let j = 0; j < q; j++) f0[j + 1] = (drift as Float64Array)[t * q + j];
+      variance[outOffset + t - from] = this.finishVariance(sys, X, b, 4, aa, f0);
+    }
+  }
+
+  /** Predict at targets whose neighbours are given directly (used by cross-validation). */
+  evaluateNeighbours(idx: Int32Array, dist: Float64Array, off: number, f: ArrayLike<number> | null, wantVar: boolean): { value: number; variance: number } {
+    this.setDrift(f);
+    this.evaluate(this.localSystem(idx, dist, off), this.sortDist, wantVar);
+    return { value: this.outValue, variance: this.outVariance };
+  }
+
+  private setDrift(f: ArrayLike<number> | null): void {
+    const q = this.model.driftCovariates;
+    this.f0[0] = 1;
+    if (q > 0) {
+      if (!f || f.length !== q) {
+        throw new GeostatsError("invalid-input", `drift target must have ${q} covariates`, "drift.targets");
+      }
+      for (let j = 0; j < q; j++) {
+        if (!Number.isFinite(f[j])) throw new GeostatsError("invalid-input", "drift target covariates must be finite numbers", "drift.targets");
+        this.f0[j + 1] = f[j];
+      }
+    }
+  }
+
+  private outValue = 0;
+  private outVariance = 0;
+
+  /**
+   * Sort one row of neighbours by station index into sortIdx/sortDist, then fetch its factorised
+   * system from the cache (or factorise it).
+   */
+  private localSystem(idx: Int32Array, dist: Float64Array, off: number): NeighbourSystem {
+    const k = this.k;
+    const si = this.sortIdx;
+    const sd = this.sortDist;
+    // insertion sort by station index (k is small)
+    for (let i = 0; i < k; i++) {
+      const v = idx[off + i];
+      const d = dist[off + i];
+      let j = i - 1;
+      while (j >= 0 && si[j] > v) {
+        si[j + 1] = si[j];
+        sd[j + 1] = sd[j];
+        j--;
+      }
+      si[j + 1] = v;
+      sd[j + 1] = d;
+    }
+    let h = 0x811c9dc5 | 0;
+    for (let i = 0; i < k; i++) h = Math.imul(h ^ si[i], 0x01000193);
+    const slot = (h >>> 0) & (CACHE_SLOTS - 1);
+    let sys = this.slots[slot];
+    if (sys && sys.valid && this.slotHash[slot] === h && sys.m === k) {
+      let same = true;
+      for (let i = 0; i < k; i++) {
+        if (sys.idx[i] !== si[i]) {
+          same = false;
+          break;
+        }
+      }
+      if (same) {
+        this.reuses++;
+        return sys;
+      }
+    }
+    if (!sys) {
+      sys = new NeighbourSystem(k, this.p);
+      this.slots[slot] = sys;
+    }
+    for (let i = 0; i < k; i++) sys.idx[i] = si[i];
+    this.slotHash[slot] = h;
+    factorise(this.model, sys, k, this.scratch);
+    this.factorisations++;
+    return sys;
+  }
+
+  /** Covariances target → stations from distances (inlined model shapes; same as covariance()). */
+  private covariances(dist: Float64Array, dOff: number, m: number, out: Float64Array, stride: number, oOff: number): void {
+    const v = this.model.variogram;
+    const sill = this.model.sill;
+    const psill = v.psill;
+    const range = v.range;
+    switch (MODEL_TYPES[v.model]) {
+      case 0:
+        for (let i = 0; i < m; i++) {
+          const h = dist[dOff + i];
+          let c: number;
+          if (h === 0) c = sill;
+          else {
+            const t = h / range;
+            c = t >= 1 ? 0 : psill * (1 - t * (1.5 - 0.5 * t * t));
+          }
+          out[oOff + i * stride] = c;
+        }
+        break;
+      case 1:
+        for (let i = 0; i < m; i++) {
+          const h = dist[dOff + i];
+          out[oOff + i * stride] = h === 0 ? sill : psill * Math.exp(-h / range);
+        }
+        break;
+      case 2:
+        for (let i = 0; i < m; i++) {
+          const h = dist[dOff + i];
+          const t = h / range;
+          out[oOff + i * stride] = h === 0 ? sill : psill * Math.exp(-t * t);
+        }
+        break;
+    }
+  }
+
+  /** Prediction and variance for a factorised system and distances aligned with sys.idx. */
+  private evaluate(sys: NeighbourSystem, dist: Float64Array, wantVar: boolean, dOff = 0): void {
+    const m = sys.m;
+    const p = sys.p;
+    const c0 = this.c0;
+    this.covariances(dist, dOff, m, c0, 1, 0);
+    const f0 = this.f0;
+    let value = 0;
+    for (let c = 0; c < p; c++) value += f0[c] * sys.beta[c];
+    value += dotp(c0, 0, sys.r, 0, m);
+    this.outValue = value;
+    if (!wantVar) {
+      this.outVariance = NaN;
+      return;
+    }
+    // a = L⁻¹c0
+    const a = this.a;
+    const L = sys.L;
+    const inv = sys.invDiag;
+    const cap = sys.cap;
+    let aa = 0;
+    for (let i = 0; i < m; i++) {
+      const ai = (c0[i] - dotp(L, i * cap, a, 0, i)) * inv[i];
+      a[i] = ai;
+      aa += ai * ai;
+    }
+    this.outVariance = this.finishVariance(sys, a, 0, 1, aa, f0);
+  }
+
+  /** σ² = C(0) − aᵀa + uᵀu with u = R⁻¹(f0 − Qᵀa); `a` read at a[aOff + i·aStride]. */
+  private finishVariance(sys: NeighbourSystem, a: Float64Array, aOff: number, aStride: number, aa: number, f0: Float64Array): number {
+    const p = sys.p;
+    const m = sys.m;
+    const cap = sys.cap;
+    const u = this.u;
+    const Q = sys.Q;
+    for (let c = 0; c < p; c++) {
+      let s = f0[c];
+      const off = c * cap;
+      for (let i = 0; i < m; i++) s -= Q[off + i] * a[aOff + i * aStride];
+      u[c] = s;
+    }
+    fwd(sys.R, p, p, u, 0);
+    let uu = 0;
+    for (let c = 0; c < p; c++) uu += u[c] * u[c];
+    return clampVariance(this.model.sill - aa + uu, this.model.sill);
+  }
+
+  /** One prediction with neighbours and weights λ = L⁻ᵀ(a + Q·R⁻ᵀu). */
+  predictOne(x: number, y: number, driftTarget?: ArrayLike<number>): KrigingPrediction {
+    const model = this.model;
+    this.setDrift(driftTarget ?? null);
+    const searcher = this.neighbourSearcher();
+    const n = model.stations.count;
+    let sys: NeighbourSystem;
+    let order: Int32Array;
+    let orderDist: Float64Array;
+    let m: number;
+    if (model.isGlobal) {
+      sys = model.global();
+      m = n;
+      order = new Int32Array(n);
+      orderDist = new Float64Array(n);
+      searcher.nearest(x, y, n, order, orderDist, 0);
+      searcher.all(x, y, this.rowDist, 0);
+      this.evaluate(sys, this.rowDist, true);
+    } else {
+      m = this.k;
+      order = new Int32Array(m);
+      orderDist = new Float64Array(m);
+      searcher.nearest(x, y, m, order, orderDist, 0);
+      sys = this.localSystem(order, orderDist, 0);
+      this.evaluate(sys, this.sortDist, true);
+    }
+    const value = this.outValue;
+    const variance = this.outVariance;
+    // weights: v = R⁻ᵀu, λ = L⁻ᵀ(a + Qv)
+    const p = sys.p;
+    const cap = sys.cap;
+    const vv = Float64Array.from(this.u.subarray(0, p));
+    bwd(sys.R, p, p, vv, 0);
+    const lambda = new Float64Array(m);
+    for (let i = 0; i < m; i++) {
+      let s = this.a[i];
+      for (let c = 0; c < p; c++) s += sys.Q[c * cap + i] * vv[c];
+      lambda[i] = s;
+    }
+    bwd(sys.L, m, cap, lambda, 0);
+    const weightOf = new Map<number, number>();
+    for (let i = 0; i < m; i++) weightOf.set(sys.idx[i], lambda[i]);
+    const neighbours: NeighbourWeight[] = [];
+    for (let i = 0; i < m; i++) {
+      neighbours.push({ index: order[i], distance: orderDist[i], weight: weightOf.get(order[i]) ?? 0 });
+    }
+    return { value, variance, distanceUnit: model.coordinates === "lonlat" ? "km" : "coordinate", neighbours };
+  }
+}
+
+/** Variances below zero are round-off: clamp to 0 (anything clearly negative means a broken system). */
+function clampVariance(v: number, sill: number): number {
+  if (v >= 0) return v;
+  if (v > -1e-6 * sill) return 0;
+  throw new GeostatsError("ill-conditioned", `negative kriging variance (${v}): the kriging system is numerically unstable`, "variogram");
+}
