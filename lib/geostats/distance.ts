@@ -108,6 +108,43 @@ export function greatCircleKmTrig(
 }
 
 /**
+ * The same distance again, faster, from unit-sphere vectors (x, y, z) plus the sines/cosines of
+ * both points. Uses two identities of the Andoyer–Lambert terms [trade: spherical trigonometry]:
+ * S = sin²G·cos²L + cos²F·sin²L is sin²(σ/2) = |u1 − u2|²/4 (σ the central angle) and S + C = 1;
+ * sin²F·cos²G = ((sinφ1 + sinφ2)/2)² and cos²F·sin²G = ((sinφ1 − sinφ2)/2)². Below ~13 km and
+ * within ~13 km of the antipode the cancellation-free half-angle form (greatCircleKmTrig) is used
+ * instead, so those distances keep full relative precision.
+ */
+export function greatCircleKmUnit(
+  sinLat1: number,
+  cosLat1: number,
+  sinLon1: number,
+  cosLon1: number,
+  x1: number,
+  y1: number,
+  z1: number,
+  sinLat2: number,
+  cosLat2: number,
+  sinLon2: number,
+  cosLon2: number,
+  x2: number,
+  y2: number,
+  z2: number,
+): number {
+  const dx = x1 - x2;
+  const dy = y1 - y2;
+  const dz = z1 - z2;
+  const S = 0.25 * (dx * dx + dy * dy + dz * dz);
+  if (S < 1e-6 || S > 1 - 1e-6) return greatCircleKmTrig(sinLat1, cosLat1, sinLon1, cosLon1, sinLat2, cosLat2, sinLon2, cosLon2);
+  const C = 1 - S;
+  const sp = 0.5 * (sinLat1 + sinLat2);
+  const sm = 0.5 * (sinLat1 - sinLat2);
+  const w = Math.atan(Math.sqrt(S / C));
+  const R = Math.sqrt(S * C) / w;
+  return 2 * w * WGS84_A_KM * (1 + WGS84_F * (((3 * R - 1) / (2 * C)) * sp * sp - ((3 * R + 1) / (2 * S)) * sm * sm));
+}
+
+/**
  * Lower bound factor: for every pair of points the Andoyer–Lambert distance is at least
  * a·σ·(1 − 2.5f), σ the central angle on the unit sphere (numerically the ratio d/(aσ) stays
  * within [1 − 2f, 1 + f]; 2.5f leaves margin). Used only to prune the neighbour search safely.

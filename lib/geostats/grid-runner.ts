@@ -14,12 +14,14 @@
  */
 import os from "node:os";
 import { setImmediate as yieldToEventLoop } from "node:timers/promises";
+import { fileURLToPath } from "node:url";
 import { Worker } from "node:worker_threads";
 import { SurfaceBatch, type SurfaceOutput, type TargetSource } from "./batch";
 import { GeostatsError } from "./errors";
 import { type GridSpec, checkGrid } from "./grid";
 import { type KrigingModel, readTargetDrift } from "./kriging";
-import { type SerializedKrigingModel, serializeKrigingModel } from "./serialize";
+import { CONTROL_ABORT, CONTROL_NEXT, type WorkerJob, type WorkerMessage } from "./grid-protocol";
+import { serializeKrigingModel } from "./serialize";
 import { type PointsInput, readPoints, normaliseCoordinates } from "./stations";
 
 export interface ParallelOptions {
@@ -97,30 +99,6 @@ function shared<T extends Float64Array | Float32Array | Uint8Array>(a: T, Ctor: 
   return out;
 }
 
-/** Message from a worker. */
-export type WorkerMessage =
-  | { type: "progress"; cells: number }
-  | { type: "done" }
-  | { type: "error"; code: string; message: string; field?: string };
-
-/** What a worker receives (structured-cloned; typed arrays over SharedArrayBuffer are shared). */
-export interface WorkerJob {
-  models: SerializedKrigingModel[];
-  distanceMatrix: Float64Array;
-  source: TargetSource;
-  drifts: (Float64Array | null)[];
-  outputs: SurfaceOutput[];
-  mask: Uint8Array | null;
-  /** [next chunk start, abort flag] */
-  control: Int32Array;
-  total: number;
-  chunk: number;
-}
-
-/** Slots of WorkerJob.control. */
-export const CONTROL_NEXT = 0;
-export const CONTROL_ABORT = 1;
-
 async function run(
   models: readonly KrigingModel[],
   source: TargetSource,
@@ -156,7 +134,7 @@ async function run(
     return outputs;
   }
 
-  // ---- worker threads
+  // ---- worker threads, with this thread working alongside them
   const threads = Math.max(1, Math.min(threadsWanted, Math.ceil(total / chunk)));
   const control = new Int32Array(new SharedArrayBuffer(8));
   const dedup = new Map<Float64Array, Float64Array>();
@@ -170,69 +148,80 @@ async function run(
     return s;
   });
   const sharedSource: TargetSource = source.kind === "points" ? { kind: "points", xy: shared(source.xy, Float64Array) } : source;
+  const sharedMask = mask ? shared(mask, Uint8Array) : null;
   const job: WorkerJob = {
     models: models.map((m) => serializeKrigingModel(m)),
     distanceMatrix: models[0].stations.sharedDistanceMatrix(),
     source: sharedSource,
     drifts: sharedDrifts,
     outputs,
-    mask: mask ? shared(mask, Uint8Array) : null,
+    mask: sharedMask,
     control,
     total,
     chunk,
   };
-  const bootstrap = new URL("./worker-bootstrap.mjs", import.meta.url);
-  const entry = new URL(import.meta.url.endsWith(".ts") ? "./grid-worker.ts" : "./grid-worker.js", import.meta.url);
+  const bootstrap = fileURLToPath(new URL("./worker-bootstrap.cjs", import.meta.url));
+  const entryPath = fileURLToPath(new URL(import.meta.url.endsWith(".ts") ? "./grid-worker.ts" : "./grid-worker.js", import.meta.url));
 
-  return new Promise<SurfaceOutput[]>((resolve, reject) => {
-    const workers: Worker[] = [];
-    const doneWorkers = new Set<Worker>();
-    let done = 0;
-    let finished = 0;
-    let settled = false;
-    const stopAll = (): void => {
-      Atomics.store(control, CONTROL_ABORT, 1);
-      for (const w of workers) void w.terminate();
-    };
-    const fail = (e: Error): void => {
-      if (settled) return;
-      settled = true;
-      signal?.removeEventListener("abort", onAbort);
-      stopAll();
-      reject(e);
-    };
-    const onAbort = (): void => fail(abortError());
-    signal?.addEventListener("abort", onAbort, { once: true });
-    for (let i = 0; i < threads; i++) {
-      const w = new Worker(bootstrap, { workerData: { entry: entry.href, job }, execArgv: [] });
-      workers.push(w);
-      w.on("message", (msg: WorkerMessage) => {
-        if (settled) return;
-        if (msg.type === "progress") {
-          done += msg.cells;
-          try {
-            options.onProgress?.({ done, total });
-          } catch (e) {
-            fail(e instanceof Error ? e : new Error(String(e)));
-          }
-        } else if (msg.type === "error") {
-          fail(new GeostatsError((msg.code as GeostatsError["code"]) ?? "invalid-input", msg.message, msg.field));
-        } else if (msg.type === "done") {
-          finished++;
-          doneWorkers.add(w);
-          if (finished === threads) {
-            settled = true;
-            signal?.removeEventListener("abort", onAbort);
-            resolve(outputs);
-          }
-        }
-      });
-      w.on("error", (e) => fail(e instanceof Error ? e : new Error(String(e))));
-      w.on("exit", (code) => {
-        if (!settled && !doneWorkers.has(w)) fail(new Error(`kriging worker stopped unexpectedly (exit code ${code})`));
-      });
+  const workers: Worker[] = [];
+  const doneWorkers = new Set<Worker>();
+  let done = 0;
+  let failure: Error | null = null;
+  let resolveWorkers: () => void = () => {};
+  const workersDone = new Promise<void>((resolve) => (resolveWorkers = resolve));
+  const progress = (cells: number): void => {
+    done += cells;
+    try {
+      options.onProgress?.({ done, total });
+    } catch (e) {
+      fail(e instanceof Error ? e : new Error(String(e)));
     }
-  });
+  };
+  const fail = (e: Error): void => {
+    if (failure) return;
+    failure = e;
+    Atomics.store(control, CONTROL_ABORT, 1);
+    for (const w of workers) void w.terminate();
+    resolveWorkers();
+  };
+  const onAbort = (): void => fail(abortError());
+  signal?.addEventListener("abort", onAbort, { once: true });
+  // threads − 1 workers; this thread is the last one
+  for (let i = 0; i < threads - 1; i++) {
+    const w = new Worker(bootstrap, { workerData: { entryPath, job }, execArgv: [] });
+    workers.push(w);
+    w.on("message", (msg: WorkerMessage) => {
+      if (failure) return;
+      if (msg.type === "progress") progress(msg.cells);
+      else if (msg.type === "error") fail(new GeostatsError((msg.code as GeostatsError["code"]) ?? "invalid-input", msg.message, msg.field));
+      else if (msg.type === "done") {
+        doneWorkers.add(w);
+        if (doneWorkers.size === workers.length) resolveWorkers();
+      }
+    });
+    w.on("error", (e) => fail(e instanceof Error ? e : new Error(String(e))));
+    w.on("exit", (code) => {
+      if (!failure && !doneWorkers.has(w)) fail(new Error(`kriging worker stopped unexpectedly (exit code ${code})`));
+    });
+  }
+  if (workers.length === 0) resolveWorkers();
+  try {
+    const batch = new SurfaceBatch(models);
+    while (!failure && Atomics.load(control, CONTROL_ABORT) === 0) {
+      const start = Atomics.add(control, CONTROL_NEXT, chunk);
+      if (start >= total) break;
+      const end = Math.min(total, start + chunk);
+      batch.run(sharedSource, start, end, sharedDrifts, outputs, start, sharedMask);
+      progress(end - start);
+      await yieldToEventLoop(); // let worker messages and the abort signal through
+    }
+  } catch (e) {
+    fail(e instanceof Error ? e : new Error(String(e)));
+  }
+  await workersDone;
+  signal?.removeEventListener("abort", onAbort);
+  if (failure) throw failure;
+  return outputs;
 }
 
 function abortError(): GeostatsError {

@@ -6,7 +6,7 @@
 import { parentPort, workerData } from "node:worker_threads";
 import { SurfaceBatch } from "./batch";
 import { isGeostatsError } from "./errors";
-import { CONTROL_ABORT, CONTROL_NEXT, type WorkerJob, type WorkerMessage } from "./grid-runner";
+import { CONTROL_ABORT, CONTROL_NEXT, type WorkerJob, type WorkerMessage } from "./grid-protocol";
 import { restoreKrigingModel } from "./serialize";
 import { StationSet } from "./stations";
 

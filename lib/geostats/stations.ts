@@ -12,6 +12,7 @@ import {
   type CoordinateSystem,
   LONLAT_LOWER_BOUND_FACTOR,
   greatCircleKmTrig,
+  greatCircleKmUnit,
   normalizeLon,
 } from "./distance";
 import { GeostatsError } from "./errors";
@@ -19,6 +20,7 @@ import { GeostatsError } from "./errors";
 const DEG = Math.PI / 180;
 /** Local binding of the hot distance function (a direct call the JIT can inline). */
 const gcTrig = greatCircleKmTrig;
+const gcUnit = greatCircleKmUnit;
 /** kd-tree leaf size: small leaves mean few exact (expensive) distance evaluations. */
 const NODE_SIZE = 8;
 /** Absolute slack (km) subtracted from lon/lat lower bounds to absorb trigonometric round-off. */
@@ -311,7 +313,22 @@ export class NeighbourSearcher {
     const s = this.set;
     if (this.lonlat) {
       if (s.xy[2 * i] === this.tLon && s.xy[2 * i + 1] === this.tLat) return 0;
-      return gcTrig(this.tSinLat, this.tCosLat, this.tSinLon, this.tCosLon, s.sinLat[i], s.cosLat[i], s.sinLon[i], s.cosLon[i]);
+      return gcUnit(
+        this.tSinLat,
+        this.tCosLat,
+        this.tSinLon,
+        this.tCosLon,
+        this.tx,
+        this.ty,
+        this.tz,
+        s.sinLat[i],
+        s.cosLat[i],
+        s.sinLon[i],
+        s.cosLon[i],
+        s.ux[i],
+        s.uy[i],
+        s.uz[i],
+      );
     }
     const dx = s.xy[2 * i] - this.tx;
     const dy = s.xy[2 * i + 1] - this.ty;

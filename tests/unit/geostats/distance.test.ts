@@ -1,11 +1,16 @@
 import { describe, expect, it } from "vitest";
 import { createStationSet, greatCircleKm, normalizeLon, planarDistance } from "@/lib/geostats";
-import { greatCircleKmTrig } from "@/lib/geostats/distance";
+import { greatCircleKmTrig, greatCircleKmUnit } from "@/lib/geostats/distance";
 import { lonlat, relClose, rng } from "./fixtures";
 
 const DEG = Math.PI / 180;
 const trig = (lon1: number, lat1: number, lon2: number, lat2: number) =>
   greatCircleKmTrig(Math.sin(lat1 * DEG), Math.cos(lat1 * DEG), Math.sin(lon1 * DEG), Math.cos(lon1 * DEG), Math.sin(lat2 * DEG), Math.cos(lat2 * DEG), Math.sin(lon2 * DEG), Math.cos(lon2 * DEG));
+const unit = (lon1: number, lat1: number, lon2: number, lat2: number) => {
+  const [s1, c1, sl1, cl1] = [Math.sin(lat1 * DEG), Math.cos(lat1 * DEG), Math.sin(lon1 * DEG), Math.cos(lon1 * DEG)];
+  const [s2, c2, sl2, cl2] = [Math.sin(lat2 * DEG), Math.cos(lat2 * DEG), Math.sin(lon2 * DEG), Math.cos(lon2 * DEG)];
+  return greatCircleKmUnit(s1, c1, sl1, cl1, c1 * cl1, c1 * sl1, s1, s2, c2, sl2, cl2, c2 * cl2, c2 * sl2, s2);
+};
 
 describe("great-circle distance (Andoyer–Lambert on WGS84)", () => {
   const fx = lonlat();
@@ -18,6 +23,8 @@ describe("great-circle distance (Andoyer–Lambert on WGS84)", () => {
       expect(Math.abs(d - p.km[i]), `pair ${i}`).toBeLessThanOrEqual(Math.max(1e-9 * p.km[i], 1e-6));
       const t = trig(p.lon1[i], p.lat1[i], p.lon2[i], p.lat2[i]);
       expect(Math.abs(t - p.km[i]), `pair ${i} (trig form)`).toBeLessThanOrEqual(Math.max(1e-9 * p.km[i], 1e-6));
+      const u = unit(p.lon1[i], p.lat1[i], p.lon2[i], p.lat2[i]);
+      expect(Math.abs(u - p.km[i]), `pair ${i} (unit-vector form)`).toBeLessThanOrEqual(Math.max(1e-9 * p.km[i], 1e-6));
     }
   });
 
@@ -34,7 +41,7 @@ describe("great-circle distance (Andoyer–Lambert on WGS84)", () => {
     });
   });
 
-  it("the precomputed-trigonometry form agrees with the direct formula to rounding, from millimetres to antipodes", () => {
+  it("the precomputed-trigonometry and unit-vector forms agree with the direct formula to rounding, from millimetres to antipodes", () => {
     const r = rng(7);
     for (let k = 0; k < 5000; k++) {
       const lon1 = 360 * r() - 180;
@@ -45,6 +52,8 @@ describe("great-circle distance (Andoyer–Lambert on WGS84)", () => {
       const a = greatCircleKm(lon1, lat1, lon2, lat2);
       const b = trig(lon1, lat1, lon2, lat2);
       expect(Math.abs(a - b)).toBeLessThanOrEqual(1e-9 * a + 1e-9);
+      const c = unit(lon1, lat1, lon2, lat2);
+      expect(Math.abs(a - c)).toBeLessThanOrEqual(1e-9 * a + 1e-9);
     }
   });
 

@@ -36,7 +36,7 @@ function expectGstat(
   const keep = (a: ArrayLike<number>) => Array.from(a).filter((_, i) => !skip[i]);
   expect(maxRel(keep(out.value), keep(ref.pred))).toBeLessThan(1e-6);
   expect(maxRel(keep(out.variance as ArrayLike<number>), keep(ref.var), 1e-6 * sill)).toBeLessThan(1e-6);
-  for (const v of out.variance as ArrayLike<number>) expect(v).toBeGreaterThanOrEqual(0);
+  for (const v of Array.from(out.variance as ArrayLike<number>)) expect(v).toBeGreaterThanOrEqual(0);
 }
 const sillOf = (v: { nugget: number; psill: number }) => v.nugget + v.psill;
 
