@@ -28,6 +28,8 @@ export class SurfaceBatch {
   private readonly blockXY: Float64Array;
   private readonly table: NeighbourTable | null;
   private readonly rows: Float64Array | null;
+  private readonly hint: Int32Array;
+  private hintValid = false;
 
   constructor(models: readonly KrigingModel[], searcher?: NeighbourSearcher) {
     if (models.length === 0) throw new GeostatsError("invalid-input", "at least one model is needed", "models");
@@ -51,6 +53,7 @@ export class SurfaceBatch {
     const n = stations.count;
     this.table = this.kLocal > 0 ? { targets: BLOCK, k: this.kLocal, index: new Int32Array(BLOCK * this.kLocal), distance: new Float64Array(BLOCK * this.kLocal) } : null;
     this.rows = this.anyGlobal ? new Float64Array(BLOCK * n) : null;
+    this.hint = new Int32Array(Math.max(1, this.kLocal));
   }
 
   /** Factorisations done / reused so far, summed over the models. */
@@ -91,13 +94,31 @@ export class SurfaceBatch {
         xy = source.xy;
         xyBase = 0;
       }
-      // neighbours and distances once per target for all models
+      // neighbours and distances once per target for all models; each search is seeded with
+      // the previous target's neighbours (adjacent cells share most of them)
+      const k = this.kLocal;
+      const table = this.table;
+      let prev = -1;
       for (let t = b; t < e; t++) {
         if (mask && mask[t] === 0) continue;
         const x = xy[2 * (t - xyBase)];
         const y = xy[2 * (t - xyBase) + 1];
-        if (this.table) this.searcher.nearest(x, y, this.kLocal, this.table.index, this.table.distance, (t - b) * this.kLocal);
+        if (table) {
+          if (prev < 0 && this.hintValid) {
+            this.searcher.nearest(x, y, k, table.index, table.distance, (t - b) * k, this.hint, 0);
+          } else if (prev >= 0) {
+            this.searcher.nearest(x, y, k, table.index, table.distance, (t - b) * k, table.index, (prev - b) * k);
+          } else {
+            this.searcher.nearest(x, y, k, table.index, table.distance, (t - b) * k);
+          }
+          prev = t;
+        }
         if (this.rows) this.searcher.all(x, y, this.rows, (t - b) * n);
+      }
+      if (table && prev >= 0) {
+        // carry the last neighbours over to the next block
+        this.hint.set(table.index.subarray((prev - b) * k, (prev - b + 1) * k));
+        this.hintValid = true;
       }
       for (let i = 0; i < this.models.length; i++) {
         const out = outputs[i];

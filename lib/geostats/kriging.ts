@@ -18,9 +18,10 @@
  */
 import { type CoordinateSystem } from "./distance";
 import { GeostatsError } from "./errors";
-import { backSolve, cholesky, dot, forwardSolve, forwardSolve4 } from "./linalg";
+import { GROUP, backSolve, cholesky, dot, forwardSolve, forwardSolveGroup } from "./linalg";
 import { type NeighbourSearcher, type NeighbourTable, type PointsInput, StationSet, readPoints } from "./stations";
 import { type VariogramModel, checkVariogram, covariance, readDrift, readValues } from "./variogram";
+import { WasmGroupSolver } from "./wasm-kernels";
 
 export interface KrigingModelOptions {
   /** A shared StationSet, or coordinates + points. */
@@ -102,7 +103,7 @@ const MODEL_TYPES = { spherical: 0, exponential: 1, gaussian: 2 } as const;
 // local bindings of the hot kernels (direct calls the JIT can inline, whatever the module format)
 const chol = cholesky;
 const fwd = forwardSolve;
-const fwd4 = forwardSolve4;
+const fwdGroup = forwardSolveGroup;
 const bwd = backSolve;
 const dotp = dot;
 
@@ -112,6 +113,8 @@ class NeighbourSystem {
   readonly cap: number;
   readonly p: number;
   readonly idx: Int32Array;
+  /** kd-order ranks of idx (scratch for gathering the covariance block). */
+  readonly rank: Int32Array;
   /** Cholesky factor of the covariance block, lower triangle, row stride `cap`. */
   readonly L: Float64Array;
   /** 1 / L_ii. */
@@ -130,6 +133,7 @@ class NeighbourSystem {
     this.cap = cap;
     this.p = p;
     this.idx = new Int32Array(cap);
+    this.rank = new Int32Array(cap);
     this.L = new Float64Array(cap * cap);
     this.invDiag = new Float64Array(cap);
     this.Q = new Float64Array(cap * p);
@@ -154,6 +158,7 @@ export class KrigingModel {
   /** C(0) = nugget + psill. */
   readonly sill: number;
   private cov: Float64Array | null = null;
+  private covKd: Float64Array | null = null;
   private globalSystem: NeighbourSystem | null = null;
   private defaultEvaluator: KrigingEvaluator | null = null;
 
@@ -224,6 +229,25 @@ export class KrigingModel {
     for (let i = 0; i < n * n; i++) c[i] = covariance(v, d[i]);
     for (let i = 0; i < n; i++) c[i * n + i] = this.sill;
     this.cov = c;
+    return c;
+  }
+
+  /**
+   * The same covariances stored in the stations' kd-tree order (entry [rank_i·n + rank_j]), so
+   * that gathering one neighbourhood's block touches few cache lines.
+   */
+  covarianceKd(): Float64Array {
+    if (this.covKd) return this.covKd;
+    const n = this.stations.count;
+    const d = this.stations.distanceMatrix();
+    const rank = this.stations.rank;
+    const c = new Float64Array(n * n);
+    const v = this.variogram;
+    for (let i = 0; i < n; i++) {
+      const ri = rank[i] * n;
+      for (let j = 0; j < n; j++) c[ri + rank[j]] = i === j ? this.sill : covariance(v, d[i * n + j]);
+    }
+    this.covKd = c;
     return c;
   }
 
@@ -306,13 +330,16 @@ function factorise(model: KrigingModel, sys: NeighbourSystem, m: number, scratch
   const n = model.stations.count;
   const cap = sys.cap;
   const p = sys.p;
-  const C = model.covarianceMatrix();
+  const C = model.covarianceKd();
+  const rank = model.stations.rank;
   const L = sys.L;
   const idx = sys.idx;
+  const rk = sys.rank;
+  for (let i = 0; i < m; i++) rk[i] = rank[idx[i]];
   for (let i = 0; i < m; i++) {
-    const row = idx[i] * n;
+    const row = rk[i] * n;
     const li = i * cap;
-    for (let j = 0; j <= i; j++) L[li + j] = C[row + idx[j]];
+    for (let j = 0; j <= i; j++) L[li + j] = C[row + rk[j]];
   }
   const bad = chol(L, m, cap);
   if (bad >= 0) throw diagnoseSingular(model, sys, m, bad);
@@ -411,11 +438,16 @@ export class KrigingEvaluator {
   private readonly rowIdx: Int32Array;
   private readonly rowDist: Float64Array;
   private readonly scratch: Float64Array;
-  /** Four interleaved right-hand sides (global neighbourhood), 4·n. */
-  private readonly block4: Float64Array;
-  /** Distances of four targets to all stations (global neighbourhood without precomputed rows), 4·n. */
-  private readonly rows4: Float64Array;
+  /** GROUP interleaved right-hand sides (global neighbourhood), GROUP·n. */
+  private readonly block: Float64Array;
+  /** Distances of GROUP targets to all stations (global neighbourhood), GROUP·n. */
+  private readonly rowsG: Float64Array;
+  /** Per-target accumulators of a group (GROUP), and Qᵀa (p·GROUP). */
+  private readonly groupAcc = new Float64Array(GROUP);
+  private readonly groupQa: Float64Array;
   private searcher: NeighbourSearcher | null = null;
+  /** The global factor in WebAssembly memory (SIMD solve of GROUP targets), or null if unavailable. */
+  private wasm: WasmGroupSolver | null | undefined;
   /** Statistics: how many neighbour systems were factorised / reused. */
   factorisations = 0;
   reuses = 0;
@@ -437,8 +469,9 @@ export class KrigingEvaluator {
     this.rowIdx = new Int32Array(cap);
     this.rowDist = new Float64Array(n);
     this.scratch = new Float64Array(n);
-    this.block4 = new Float64Array(model.isGlobal ? 4 * n : 0);
-    this.rows4 = new Float64Array(model.isGlobal ? 4 * n : 0);
+    this.block = new Float64Array(model.isGlobal ? GROUP * n : 0);
+    this.rowsG = new Float64Array(model.isGlobal ? GROUP * n : 0);
+    this.groupQa = new Float64Array(GROUP * this.p);
   }
 
   private neighbourSearcher(): NeighbourSearcher {
@@ -468,16 +501,16 @@ export class KrigingEvaluator {
     const n = model.stations.count;
     const wantVar = variance !== null;
     if (model.isGlobal) {
-      // unmasked targets in groups of four
-      const group = [0, 0, 0, 0];
+      // unmasked targets in groups of GROUP: one pass over L serves the whole group
+      const group = new Array<number>(GROUP).fill(0);
       let g = 0;
       const flush = (): void => {
         if (g === 0) return;
-        // distances of the (not necessarily consecutive) targets to all stations, into rows4
+        // distances of the (not necessarily consecutive) targets to all stations, into rowsG
         for (let b = 0; b < g; b++) {
           const t = group[b];
-          if (rows) this.rows4.set(rows.subarray((t - base) * n, (t - base + 1) * n), b * n);
-          else this.neighbourSearcher().all(xy[2 * (t - xyBase)], xy[2 * (t - xyBase) + 1], this.rows4, b * n);
+          if (rows) this.rowsG.set(rows.subarray((t - base) * n, (t - base + 1) * n), b * n);
+          else this.neighbourSearcher().all(xy[2 * (t - xyBase)], xy[2 * (t - xyBase) + 1], this.rowsG, b * n);
         }
         this.evaluateGroup(group, g, drift, value, variance, outOffset, from);
         g = 0;
@@ -489,7 +522,7 @@ export class KrigingEvaluator {
           continue;
         }
         group[g++] = t;
-        if (g === 4) flush();
+        if (g === GROUP) flush();
       }
       flush();
       return;
@@ -521,7 +554,7 @@ export class KrigingEvaluator {
     }
   }
 
-  /** Up to four (not necessarily consecutive) targets of a global model; their rows are in rows4. */
+  /** Up to GROUP (not necessarily consecutive) targets of a global model; their rows are in rowsG. */
   private evaluateGroup(
     group: number[],
     g: number,
@@ -535,32 +568,60 @@ export class KrigingEvaluator {
     const n = sys.m;
     const p = sys.p;
     const q = p - 1;
-    const X = this.block4;
-    if (g < 4) X.fill(0);
+    const X = this.block;
+    if (g < GROUP) X.fill(0);
     const beta = sys.beta;
     const r = sys.r;
+    for (let b = 0; b < g; b++) this.covariances(this.rowsG, b * n, n, X, GROUP, b);
+    // predictions: f0ᵀβ + c0ᵀr, all targets in one pass over the stations
+    const acc = this.groupAcc;
+    acc.fill(0);
+    for (let i = 0; i < n; i++) {
+      const ri = r[i];
+      const o = GROUP * i;
+      for (let b = 0; b < GROUP; b++) acc[b] += X[o + b] * ri;
+    }
     for (let b = 0; b < g; b++) {
       const t = group[b];
-      this.covariances(this.rows4, b * n, n, X, 4, b);
       let v = beta[0];
       for (let j = 0; j < q; j++) v += (drift as Float64Array)[t * q + j] * beta[j + 1];
-      let s = 0;
-      for (let i = 0; i < n; i++) s += X[4 * i + b] * r[i];
-      value[outOffset + t - from] = v + s;
+      value[outOffset + t - from] = v + acc[b];
     }
     if (!variance) return;
-    fwd4(sys.L, sys.invDiag, n, sys.cap, X);
+    if (this.wasm === undefined) this.wasm = GROUP === 8 ? WasmGroupSolver.create(sys.L, sys.invDiag, n, sys.cap) : null;
+    if (this.wasm) this.wasm.solve(X);
+    else fwdGroup(sys.L, sys.invDiag, n, sys.cap, X);
+    // aᵀa and Qᵀa for all targets in one pass
+    const aa = this.groupAcc;
+    aa.fill(0);
+    const qa = this.groupQa;
+    qa.fill(0);
+    const Q = sys.Q;
+    const cap = sys.cap;
+    for (let i = 0; i < n; i++) {
+      const o = GROUP * i;
+      for (let b = 0; b < GROUP; b++) {
+        const ai = X[o + b];
+        aa[b] += ai * ai;
+      }
+      for (let c = 0; c < p; c++) {
+        const qi = Q[c * cap + i];
+        const oc = c * GROUP;
+        for (let b = 0; b < GROUP; b++) qa[oc + b] += qi * X[o + b];
+      }
+    }
     const f0 = this.f0;
+    const u = this.u;
+    const sill = this.model.sill;
     for (let b = 0; b < g; b++) {
       const t = group[b];
-      let aa = 0;
-      for (let i = 0; i < n; i++) {
-        const ai = X[4 * i + b];
-        aa += ai * ai;
-      }
       f0[0] = 1;
       for (let j = 0; j < q; j++) f0[j + 1] = (drift as Float64Array)[t * q + j];
-      variance[outOffset + t - from] = this.finishVariance(sys, X, b, 4, aa, f0);
+      for (let c = 0; c < p; c++) u[c] = f0[c] - qa[c * GROUP + b];
+      fwd(sys.R, p, p, u, 0);
+      let uu = 0;
+      for (let c = 0; c < p; c++) uu += u[c] * u[c];
+      variance[outOffset + t - from] = clampVariance(sill - aa[b] + uu, sill);
     }
   }
 

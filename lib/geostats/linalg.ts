@@ -45,31 +45,48 @@ export function dot(x: Float64Array, xo: number, y: Float64Array, yo: number, le
   return s0 + s1 + (s2 + s3);
 }
 
+/** Right-hand sides solved together by forwardSolveGroup. */
+export const GROUP = 8;
+
 /**
- * Four right-hand sides at once: solve L·X = B in place for B stored interleaved
- * (b[4i + c] = row i of right-hand side c). Each element of L is loaded once for four targets.
- * `invDiag` holds 1/L_ii. Returns nothing; X overwrites b.
+ * GROUP right-hand sides at once: solve L·X = B in place for B stored interleaved
+ * (b[GROUP·i + c] = row i of right-hand side c). Each element of L is loaded once for all of them
+ * and the eight running sums are independent, which keeps the JIT's pipelines full.
+ * `invDiag` holds 1/L_ii.
  */
-export function forwardSolve4(l: Float64Array, invDiag: Float64Array, m: number, stride: number, b: Float64Array): void {
+export function forwardSolveGroup(l: Float64Array, invDiag: Float64Array, m: number, stride: number, b: Float64Array): void {
   for (let i = 0; i < m; i++) {
     const row = i * stride;
-    let s0 = b[4 * i];
-    let s1 = b[4 * i + 1];
-    let s2 = b[4 * i + 2];
-    let s3 = b[4 * i + 3];
+    const o = 8 * i;
+    let s0 = b[o];
+    let s1 = b[o + 1];
+    let s2 = b[o + 2];
+    let s3 = b[o + 3];
+    let s4 = b[o + 4];
+    let s5 = b[o + 5];
+    let s6 = b[o + 6];
+    let s7 = b[o + 7];
     for (let k = 0; k < i; k++) {
       const v = l[row + k];
-      const kk = 4 * k;
+      const kk = 8 * k;
       s0 -= v * b[kk];
       s1 -= v * b[kk + 1];
       s2 -= v * b[kk + 2];
       s3 -= v * b[kk + 3];
+      s4 -= v * b[kk + 4];
+      s5 -= v * b[kk + 5];
+      s6 -= v * b[kk + 6];
+      s7 -= v * b[kk + 7];
     }
     const inv = invDiag[i];
-    b[4 * i] = s0 * inv;
-    b[4 * i + 1] = s1 * inv;
-    b[4 * i + 2] = s2 * inv;
-    b[4 * i + 3] = s3 * inv;
+    b[o] = s0 * inv;
+    b[o + 1] = s1 * inv;
+    b[o + 2] = s2 * inv;
+    b[o + 3] = s3 * inv;
+    b[o + 4] = s4 * inv;
+    b[o + 5] = s5 * inv;
+    b[o + 6] = s6 * inv;
+    b[o + 7] = s7 * inv;
   }
 }
 

@@ -11,6 +11,8 @@ import KDBush from "kdbush";
 import {
   type CoordinateSystem,
   LONLAT_LOWER_BOUND_FACTOR,
+  WGS84_A_KM,
+  WGS84_F,
   greatCircleKmTrig,
   greatCircleKmUnit,
   normalizeLon,
@@ -21,6 +23,9 @@ const DEG = Math.PI / 180;
 /** Local binding of the hot distance function (a direct call the JIT can inline). */
 const gcTrig = greatCircleKmTrig;
 const gcUnit = greatCircleKmUnit;
+const A_KM = WGS84_A_KM;
+const FLAT = WGS84_F;
+const LBF = LONLAT_LOWER_BOUND_FACTOR;
 /** kd-tree leaf size: small leaves mean few exact (expensive) distance evaluations. */
 const NODE_SIZE = 8;
 /** Absolute slack (km) subtracted from lon/lat lower bounds to absorb trigonometric round-off. */
@@ -104,6 +109,11 @@ export class StationSet {
   readonly uz: Float64Array;
   readonly index: KDBush;
   readonly tree: StationTree;
+  /**
+   * Position of each station in the kd-tree's order (spatially coherent): matrices stored in this
+   * order keep a neighbourhood's rows and columns close together in memory.
+   */
+  readonly rank: Int32Array;
   private distances: Float64Array | null;
   private defaultSearcher: NeighbourSearcher | null = null;
 
@@ -142,6 +152,8 @@ export class StationSet {
     for (let i = 0; i < n; i++) index.add(xy[2 * i], xy[2 * i + 1]);
     this.index = index.finish();
     this.tree = buildTree(this);
+    this.rank = new Int32Array(n);
+    for (let pos = 0; pos < n; pos++) this.rank[this.index.ids[pos]] = pos;
     if (options.distanceMatrix) {
       if (options.distanceMatrix.length !== n * n) {
         throw new GeostatsError("invalid-input", "distanceMatrix must have n × n entries", "distanceMatrix");
@@ -276,6 +288,9 @@ export class NeighbourSearcher {
   private tCosLon = 0;
   /** Squared pruning radius: boxes and candidates beyond it cannot beat the current k-th neighbour. */
   private prune2 = Infinity;
+  /** Per-station stamp of the query that already considered it (hint seeding). */
+  private readonly seen: Int32Array;
+  private stamp = 0;
 
   constructor(set: StationSet) {
     this.set = set;
@@ -285,6 +300,7 @@ export class NeighbourSearcher {
     this.heapKey = new Float64Array(this.tree.count + 1);
     this.resD = new Float64Array(set.count);
     this.resI = new Int32Array(set.count);
+    this.seen = new Int32Array(set.count);
   }
 
   private setTarget(x: number, y: number): void {
@@ -341,15 +357,56 @@ export class NeighbourSearcher {
    */
   all(x: number, y: number, out: Float64Array, offset = 0): void {
     this.setTarget(x, y);
-    const n = this.set.count;
-    for (let i = 0; i < n; i++) out[offset + i] = this.distanceTo(i);
+    const s = this.set;
+    const n = s.count;
+    if (!this.lonlat) {
+      for (let i = 0; i < n; i++) out[offset + i] = this.distanceTo(i);
+      return;
+    }
+    // greatCircleKmUnit inlined over the station arrays (this loop dominates global kriging)
+    const tx = this.tx;
+    const ty = this.ty;
+    const tz = this.tz;
+    const ts = this.tSinLat;
+    const ux = s.ux;
+    const uy = s.uy;
+    const uz = s.uz;
+    const sl = s.sinLat;
+    const twoA = 2 * A_KM;
+    for (let i = 0; i < n; i++) {
+      const dx = tx - ux[i];
+      const dy = ty - uy[i];
+      const dz = tz - uz[i];
+      const S = 0.25 * (dx * dx + dy * dy + dz * dz);
+      if (S < 1e-6 || S > 1 - 1e-6) {
+        out[offset + i] = this.distanceTo(i);
+        continue;
+      }
+      const C = 1 - S;
+      const sp = 0.5 * (ts + sl[i]);
+      const sm = 0.5 * (ts - sl[i]);
+      const w = Math.atan(Math.sqrt(S / C));
+      const R = Math.sqrt(S * C) / w;
+      out[offset + i] = twoA * w * (1 + FLAT * (((3 * R - 1) / (2 * C)) * sp * sp - ((3 * R + 1) / (2 * S)) * sm * sm));
+    }
   }
 
   /**
    * Writes the min(k, n) nearest stations of (x, y) to outIndex/outDist starting at `offset`,
-   * nearest first (ties by station index). Returns the number written.
+   * nearest first (ties by station index). Returns the number written. An optional `hint` (k
+   * station indices at hint[hintOffset …], e.g. the previous cell's neighbours) only speeds the
+   * search up; the result is the same.
    */
-  nearest(x: number, y: number, k: number, outIndex: Int32Array, outDist: Float64Array, offset = 0): number {
+  nearest(
+    x: number,
+    y: number,
+    k: number,
+    outIndex: Int32Array,
+    outDist: Float64Array,
+    offset = 0,
+    hint?: Int32Array,
+    hintOffset = 0,
+  ): number {
     const set = this.set;
     const n = set.count;
     k = Math.min(k, n);
@@ -360,6 +417,21 @@ export class NeighbourSearcher {
     this.prune2 = Infinity;
     const tree = this.tree;
     const ids = set.index.ids;
+    // a new query stamp: stations seeded from the hint are not considered twice
+    if (++this.stamp === 0x7fffffff) {
+      this.seen.fill(0);
+      this.stamp = 1;
+    }
+    if (hint) {
+      // seed with a nearby target's neighbours (e.g. the previous grid cell): their exact
+      // distances make the pruning radius tight from the start
+      for (let j = 0; j < k; j++) {
+        const i = hint[hintOffset + j];
+        if (!(i >= 0 && i < n) || this.seen[i] === this.stamp) continue;
+        this.seen[i] = this.stamp;
+        this.consider(i);
+      }
+    }
     this.pushNode(0, 0);
     while (this.heapSize > 0) {
       const key = this.heapKey[0];
@@ -369,10 +441,14 @@ export class NeighbourSearcher {
       const right = tree.right[node];
       const a = tree.childA[node];
       if (a < 0) {
-        for (let i = left; i <= right; i++) this.consider(ids[i]);
+        for (let i = left; i <= right; i++) {
+          const id = ids[i];
+          if (this.seen[id] !== this.stamp) this.consider(id);
+        }
         continue;
       }
-      this.consider(ids[(left + right) >> 1]);
+      const mid = ids[(left + right) >> 1];
+      if (this.seen[mid] !== this.stamp) this.consider(mid);
       const ka = this.boxDistance2(a);
       if (ka <= this.prune2) this.pushNode(a, ka);
       const b = tree.childB[node];
@@ -443,7 +519,7 @@ export class NeighbourSearcher {
   private updatePrune(): void {
     const topD = this.resD[0];
     if (this.lonlat) {
-      const angle = (topD + LONLAT_SLACK_KM) / LONLAT_LOWER_BOUND_FACTOR;
+      const angle = (topD + LONLAT_SLACK_KM) / LBF;
       if (angle >= Math.PI) {
         this.prune2 = Infinity;
       } else {

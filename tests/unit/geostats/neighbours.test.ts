@@ -121,6 +121,30 @@ describe("exact nearest-neighbour search", () => {
     }
   });
 
+  it("a hint (another target's neighbours) never changes the result", () => {
+    const r = rng(6);
+    const pts: [number, number][] = [];
+    for (let i = 0; i < 300; i++) pts.push([360 * r() - 180, 160 * r() - 80]);
+    const set = createStationSet({ coordinates: "lonlat", points: pts });
+    const s = set.searcher();
+    const k = 12;
+    const hint = new Int32Array(k);
+    const hd = new Float64Array(k);
+    const idx = new Int32Array(k);
+    const d = new Float64Array(k);
+    for (let t = 0; t < 200; t++) {
+      // hints from a nearby target, a far target, and a random set of stations
+      const x = 360 * r() - 180;
+      const y = 160 * r() - 80;
+      const kind = t % 3;
+      if (kind === 0) s.nearest(x + 0.5, y - 0.3, k, hint, hd, 0);
+      else if (kind === 1) s.nearest(-x, -y, k, hint, hd, 0);
+      else for (let j = 0; j < k; j++) hint[j] = (j * 37 + t) % 300;
+      s.nearest(x, y, k, idx, d, 0, hint, 0);
+      expect(Array.from(idx)).toEqual(bruteForce(set, x, y, k).index);
+    }
+  });
+
   it("rejects targets with impossible latitudes", () => {
     const set = createStationSet({ coordinates: "lonlat", points: [[0, 0], [1, 1]] });
     expect(() => set.searcher().nearest(0, 91, 1, new Int32Array(1), new Float64Array(1))).toThrow(/latitude/);
