@@ -5,7 +5,7 @@
  */
 import { GeostatsError } from "./errors";
 import { type GridSpec, gridCellCentres } from "./grid";
-import { type KrigingEvaluator, type KrigingModel, readTargetDrift } from "./kriging";
+import { type KrigingEvaluator, type KrigingModel, readTargetDrift, sortNeighbourRow } from "./kriging";
 import { type NeighbourSearcher, type NeighbourTable, type PointsInput, type StationSet, readPoints } from "./stations";
 
 /** Where the targets come from: explicit points, or the cells of a grid. */
@@ -30,6 +30,8 @@ export class SurfaceBatch {
   private readonly rows: Float64Array | null;
   private readonly hint: Int32Array;
   private hintValid = false;
+  /** The table's rows sorted by station index, with hashes (shared by the models). */
+  private readonly sorted: { index: Int32Array; distance: Float64Array; hash: Int32Array } | null;
 
   constructor(models: readonly KrigingModel[], searcher?: NeighbourSearcher) {
     if (models.length === 0) throw new GeostatsError("invalid-input", "at least one model is needed", "models");
@@ -42,8 +44,12 @@ export class SurfaceBatch {
     this.stations = stations;
     this.models = models;
     this.searcher = searcher ?? stations.searcher();
+    // bound the memory of the factorisation caches: about 48 MB per batch, 16 … 256 slots each
+    const slotBytes = (m: KrigingModel) => 8 * (m.neighbourCount * (m.neighbourCount + 4) + (m.driftCovariates + 1) * (m.neighbourCount + 3));
+    const perModel = 48e6 / models.reduce((a, m) => a + (m.isGlobal ? 0 : slotBytes(m)), 1);
+    const slots = Math.max(16, Math.min(256, 2 ** Math.floor(Math.log2(Math.max(1, perModel)))));
     this.evaluators = models.map((m) => {
-      const e = m.createEvaluator();
+      const e = m.createEvaluator(slots);
       e.setSearcher(this.searcher);
       return e;
     });
@@ -54,6 +60,10 @@ export class SurfaceBatch {
     this.table = this.kLocal > 0 ? { targets: BLOCK, k: this.kLocal, index: new Int32Array(BLOCK * this.kLocal), distance: new Float64Array(BLOCK * this.kLocal) } : null;
     this.rows = this.anyGlobal ? new Float64Array(BLOCK * n) : null;
     this.hint = new Int32Array(Math.max(1, this.kLocal));
+    this.sorted =
+      this.kLocal > 0 && models.filter((m) => !m.isGlobal && m.neighbourCount === this.kLocal).length > 1
+        ? { index: new Int32Array(BLOCK * this.kLocal), distance: new Float64Array(BLOCK * this.kLocal), hash: new Int32Array(BLOCK) }
+        : null;
   }
 
   /** Factorisations done / reused so far, summed over the models. */
@@ -114,6 +124,10 @@ export class SurfaceBatch {
           prev = t;
         }
         if (this.rows) this.searcher.all(x, y, this.rows, (t - b) * n);
+        if (this.sorted && table) {
+          const o = (t - b) * k;
+          this.sorted.hash[t - b] = sortNeighbourRow(table.index, table.distance, o, k, this.sorted.index, this.sorted.distance, o);
+        }
       }
       if (table && prev >= 0) {
         // carry the last neighbours over to the next block
@@ -135,6 +149,7 @@ export class SurfaceBatch {
           variance: out.variance,
           outOffset: outOffset + b - from,
           mask,
+          sorted: this.sorted,
         });
       }
     }

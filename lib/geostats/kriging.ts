@@ -96,6 +96,11 @@ export interface RunArgs {
   outOffset: number;
   /** Optional mask (absolute target index): 0 = skip (NaN). */
   mask?: Uint8Array | null;
+  /**
+   * The table's rows already sorted by station index with their hashes (row = t − base), shared
+   * by all models of a batch whose neighbourhood size equals table.k.
+   */
+  sorted?: { index: Int32Array; distance: Float64Array; hash: Int32Array } | null;
 }
 
 const MODEL_TYPES = { spherical: 0, exponential: 1, gaussian: 2 } as const;
@@ -143,6 +148,7 @@ class NeighbourSystem {
   }
 }
 
+/** Cached factorised neighbour systems per evaluator (a power of two; see createEvaluator). */
 const CACHE_SLOTS = 256;
 
 export class KrigingModel {
@@ -263,9 +269,12 @@ export class KrigingModel {
     return this.globalSystem;
   }
 
-  /** A per-thread evaluator with its own caches and scratch buffers. */
-  createEvaluator(): KrigingEvaluator {
-    return new KrigingEvaluator(this);
+  /**
+   * A per-thread evaluator with its own caches and scratch buffers. `cacheSlots` (a power of two,
+   * default 256) bounds the factorised neighbour systems it keeps.
+   */
+  createEvaluator(cacheSlots = CACHE_SLOTS): KrigingEvaluator {
+    return new KrigingEvaluator(this, cacheSlots);
   }
 
   private evaluator(): KrigingEvaluator {
@@ -420,6 +429,36 @@ function diagnoseSingular(model: KrigingModel, sys: NeighbourSystem, m: number, 
 }
 
 /**
+ * Copies one neighbour row (sorted by distance) into out*[oOff …] sorted by station index —
+ * the canonical key of a neighbour set — and returns its hash (FNV-1a over the indices).
+ */
+export function sortNeighbourRow(
+  idx: Int32Array,
+  dist: Float64Array,
+  off: number,
+  k: number,
+  outIdx: Int32Array,
+  outDist: Float64Array,
+  oOff: number,
+): number {
+  for (let i = 0; i < k; i++) {
+    const v = idx[off + i];
+    const d = dist[off + i];
+    let j = i - 1;
+    while (j >= 0 && outIdx[oOff + j] > v) {
+      outIdx[oOff + j + 1] = outIdx[oOff + j];
+      outDist[oOff + j + 1] = outDist[oOff + j];
+      j--;
+    }
+    outIdx[oOff + j + 1] = v;
+    outDist[oOff + j + 1] = d;
+  }
+  let h = 0x811c9dc5 | 0;
+  for (let i = 0; i < k; i++) h = Math.imul(h ^ outIdx[oOff + i], 0x01000193);
+  return h;
+}
+
+/**
  * Evaluates a model at many targets with a cache of factorised neighbour systems and scratch
  * buffers (one evaluator per thread; nothing is allocated per target).
  */
@@ -452,13 +491,17 @@ export class KrigingEvaluator {
   factorisations = 0;
   reuses = 0;
 
-  constructor(model: KrigingModel) {
+  private readonly cacheMask: number;
+
+  constructor(model: KrigingModel, cacheSlots = CACHE_SLOTS) {
     this.model = model;
+    const slots = 2 ** Math.max(0, Math.min(16, Math.floor(Math.log2(Math.max(1, cacheSlots)))));
+    this.cacheMask = slots - 1;
     const n = model.stations.count;
     this.k = model.neighbourCount;
     this.p = model.driftCovariates + 1;
-    this.slots = new Array(model.isGlobal ? 0 : CACHE_SLOTS).fill(null);
-    this.slotHash = new Int32Array(CACHE_SLOTS);
+    this.slots = new Array(model.isGlobal ? 0 : slots).fill(null);
+    this.slotHash = new Int32Array(model.isGlobal ? 0 : slots);
     const cap = Math.max(this.k, 1);
     this.sortIdx = new Int32Array(cap);
     this.sortDist = new Float64Array(cap);
@@ -535,6 +578,14 @@ export class KrigingEvaluator {
         continue;
       }
       if (q > 0) for (let j = 0; j < q; j++) f0[j + 1] = (drift as Float64Array)[t * q + j];
+      const sorted = args.sorted;
+      if (sorted && table && table.k === this.k) {
+        const so = (t - base) * this.k;
+        this.evaluate(this.lookupSystem(sorted.index, so, sorted.hash[t - base]), sorted.distance, wantVar, so);
+        value[o] = this.outValue;
+        if (variance) variance[o] = this.outVariance;
+        continue;
+      }
       let idx: Int32Array;
       let dist: Float64Array;
       let off: number;
@@ -654,30 +705,23 @@ export class KrigingEvaluator {
    * system from the cache (or factorise it).
    */
   private localSystem(idx: Int32Array, dist: Float64Array, off: number): NeighbourSystem {
+    const h = sortNeighbourRow(idx, dist, off, this.k, this.sortIdx, this.sortDist, 0);
+    return this.lookupSystem(this.sortIdx, 0, h);
+  }
+
+  /**
+   * The factorised system of the neighbour set sorted[off … off+k) (ascending station indices,
+   * hash h from sortNeighbourRow), from the cache or newly factorised.
+   */
+  private lookupSystem(sorted: Int32Array, off: number, h: number): NeighbourSystem {
     const k = this.k;
-    const si = this.sortIdx;
-    const sd = this.sortDist;
-    // insertion sort by station index (k is small)
-    for (let i = 0; i < k; i++) {
-      const v = idx[off + i];
-      const d = dist[off + i];
-      let j = i - 1;
-      while (j >= 0 && si[j] > v) {
-        si[j + 1] = si[j];
-        sd[j + 1] = sd[j];
-        j--;
-      }
-      si[j + 1] = v;
-      sd[j + 1] = d;
-    }
-    let h = 0x811c9dc5 | 0;
-    for (let i = 0; i < k; i++) h = Math.imul(h ^ si[i], 0x01000193);
-    const slot = (h >>> 0) & (CACHE_SLOTS - 1);
+    const slot = (h >>> 0) & this.cacheMask;
     let sys = this.slots[slot];
     if (sys && sys.valid && this.slotHash[slot] === h && sys.m === k) {
       let same = true;
+      const sidx = sys.idx;
       for (let i = 0; i < k; i++) {
-        if (sys.idx[i] !== si[i]) {
+        if (sidx[i] !== sorted[off + i]) {
           same = false;
           break;
         }
@@ -691,12 +735,13 @@ export class KrigingEvaluator {
       sys = new NeighbourSystem(k, this.p);
       this.slots[slot] = sys;
     }
-    for (let i = 0; i < k; i++) sys.idx[i] = si[i];
+    for (let i = 0; i < k; i++) sys.idx[i] = sorted[off + i];
     this.slotHash[slot] = h;
     factorise(this.model, sys, k, this.scratch);
     this.factorisations++;
     return sys;
   }
+
 
   /** Covariances target → stations from distances (inlined model shapes; same as covariance()). */
   private covariances(dist: Float64Array, dOff: number, m: number, out: Float64Array, stride: number, oOff: number): void {

@@ -10,7 +10,7 @@
  */
 
 // (func $fwd8 (param $L i32) (param $inv i32) (param $B i32) (param $m i32)
-//   (local $i i32) (local $k i32) (local $row i32) (local $bi i32) (local $bk i32) (local $end i32)
+//   (local $i i32) (local $spare i32) (local $row i32) (local $bi i32) (local $bk i32) (local $end i32)
 //   (local $s0 v128) (local $s1 v128) (local $s2 v128) (local $s3 v128) (local $v v128)
 //   loop over rows i = 0 … m−1:
 //     $row = $L + 8·m·i ; $bi = $B + 64·i
@@ -76,7 +76,7 @@ const end = [0x0b];
 
 // locals: params 0..3, then i32 ×6 (4..9), v128 ×5 (10..14)
 const [pL, pInv, pB, pM] = [0, 1, 2, 3];
-const [lI, lK, lRow, lBi, lBk, lEnd] = [4, 5, 6, 7, 8, 9];
+const [lI, _lSpare, lRow, lBi, lBk, lEnd] = [4, 5, 6, 7, 8, 9]; // local 5 is unused
 const [s0, s1, s2, s3, lV] = [10, 11, 12, 13, 14];
 const S = [s0, s1, s2, s3];
 

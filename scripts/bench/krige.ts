@@ -14,11 +14,15 @@
 //
 // Options: --runs N (Rainprint repetitions, default 3), --gstat-runs N (default 1),
 //          --case 1|2 (default both), --threads N (default all cores).
+//
+// `--case edition` instead times an edition-sized build (not compared with gstat): 38 surfaces
+// (13 with a |lat|, lat², elevation drift, 25 without) over the same 280 synthetic stations,
+// maxNeighbors 24, on a global 0.25° grid masked to ~300,000 synthetic "land" cells.
 import { spawnSync } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
-import { createKrigingModel, createStationSet, gridCellCentres, gridFromBounds } from "../../lib/geostats";
+import { type KrigingModel, createKrigingModel, createStationSet, gridCellCentres, gridFromBounds } from "../../lib/geostats";
 import { krigeGrid } from "../../lib/geostats/grid-runner";
 
 const VARIOGRAM = { model: "exponential" as const, nugget: 0.2, psill: 1.5, range: 400 };
@@ -84,6 +88,76 @@ async function child(id: CaseId, out: string, threads: number | undefined): Prom
   console.log(JSON.stringify({ wallMs, maxRssKB: process.resourceUsage().maxRSS }));
 }
 
+// ---------------------------------------------------------------- edition-sized build
+/** A synthetic land mask (about 300,000 cells of the 0.25° grid). */
+const land = (lon: number, lat: number): boolean => Math.sin(lon / 23) + Math.cos(lat / 11) + 0.5 * Math.sin((lon + lat) / 7) > 0.45 && lat > -60;
+
+async function editionChild(threads: number | undefined): Promise<void> {
+  const r = rng(7);
+  const pts: number[][] = [];
+  while (pts.length < 280) {
+    const lon = 360 * r() - 180;
+    const lat = 150 * r() - 60;
+    if (land(lon, lat)) pts.push([lon, lat]);
+  }
+  const elev = pts.map(() => 2500 * r() * r());
+  const grid = gridFromBounds({ west: -180, east: 180, south: -90, north: 90, nx: 1440, ny: 720 });
+  const cells = grid.nx * grid.ny;
+  const xy = new Float64Array(2 * cells);
+  gridCellCentres(grid, 0, cells, xy);
+  const mask = new Uint8Array(cells);
+  const cellDrift = new Float64Array(3 * cells);
+  let landCells = 0;
+  for (let c = 0; c < cells; c++) {
+    const lon = xy[2 * c];
+    const lat = xy[2 * c + 1];
+    if (land(lon, lat)) {
+      mask[c] = 1;
+      landCells++;
+    }
+    cellDrift[3 * c] = Math.abs(lat);
+    cellDrift[3 * c + 1] = lat * lat;
+    cellDrift[3 * c + 2] = 1200 * (1 + Math.sin(lon / 5) * Math.cos(lat / 7));
+  }
+  const t0 = performance.now();
+  const stations = createStationSet({ coordinates: "lonlat", points: pts });
+  const models: KrigingModel[] = [];
+  const drifts: (Float64Array | null)[] = [];
+  for (let s = 0; s < 38; s++) {
+    const withDrift = s < 13;
+    const values = pts.map((p, i) => (withDrift ? -2 - 0.2 * Math.abs(p[1]) - 0.002 * elev[i] : 10) + Math.sin(p[0] / 20 + s) + 0.3 * r());
+    models.push(
+      createKrigingModel({
+        stations,
+        values,
+        variogram: { model: "exponential", nugget: 0.3, psill: 2, range: 1500 + 50 * s },
+        maxNeighbors: 24,
+        drift: withDrift ? { points: pts.map((p, i) => [Math.abs(p[1]), p[1] * p[1], elev[i]]) } : undefined,
+      }),
+    );
+    drifts.push(withDrift ? cellDrift : null);
+  }
+  await krigeGrid({ grid, models, drifts, mask, threads });
+  const wallMs = performance.now() - t0;
+  console.log(JSON.stringify({ wallMs, maxRssKB: process.resourceUsage().maxRSS, landCells }));
+}
+
+async function edition(runs: number, tsx: string, threads: string): Promise<void> {
+  const times: number[] = [];
+  const rss: number[] = [];
+  let landCells = 0;
+  for (let i = 0; i < runs; i++) {
+    const res = spawnSync(process.execPath, [tsx, "scripts/bench/krige.ts", "--edition-child", ...(threads ? ["--threads", threads] : [])], { encoding: "utf8" });
+    if (res.status !== 0) throw new Error(`edition run failed: ${res.stderr}`);
+    const line = JSON.parse(res.stdout.trim().split("\n").pop() as string) as { wallMs: number; maxRssKB: number; landCells: number };
+    times.push(line.wallMs);
+    rss.push(line.maxRssKB);
+    landCells = line.landCells;
+  }
+  console.log(`\nedition-sized build: 38 surfaces (13 with drift), 280 stations, maxNeighbors 24, ${landCells} land cells of a global 0.25° grid`);
+  console.log(`  Rainprint: wall ${(median(times) / 1000).toFixed(1)} s median of ${runs} (runs: ${times.map((t) => (t / 1000).toFixed(1)).join(", ")} s), peak RSS ${(median(rss) / 1024).toFixed(0)} MB; goal ≤ 60 s on 2 cores`);
+}
+
 // ---------------------------------------------------------------- parent
 function hasGstat(): boolean {
   const r = spawnSync("Rscript", ["-e", "suppressPackageStartupMessages(library(gstat)); library(sp); cat('ok')"], { encoding: "utf8" });
@@ -95,8 +169,13 @@ async function parent(): Promise<void> {
   const gstatRuns = Math.max(0, Number(arg("gstat-runs", "1")));
   const which = arg("case", "both");
   const threads = arg("threads", "");
-  const ids: CaseId[] = which === "both" ? [1, 2] : [Number(which) as CaseId];
   const tsx = path.join(process.cwd(), "node_modules", "tsx", "dist", "cli.mjs");
+  if (which === "edition") {
+    console.log(`Rainprint kriging benchmark — ${os.cpus().length} cores (${os.cpus()[0]?.model ?? "cpu"}), Node ${process.version}, load average ${os.loadavg().map((x) => x.toFixed(2)).join(" ")}; synthetic demo data`);
+    await edition(runs, tsx, threads);
+    return;
+  }
+  const ids: CaseId[] = which === "both" ? [1, 2] : [Number(which) as CaseId];
   const withGstat = gstatRuns > 0 && hasGstat();
   console.log(`Rainprint kriging benchmark — ${os.cpus().length} cores (${os.cpus()[0]?.model ?? "cpu"}), Node ${process.version}, load average ${os.loadavg().map((x) => x.toFixed(2)).join(" ")}`);
   console.log(`model: exponential nugget ${VARIOGRAM.nugget}, psill ${VARIOGRAM.psill}, range ${VARIOGRAM.range} km; grid ${BOX.nx} × ${BOX.ny} = ${BOX.nx * BOX.ny} cells over lon ${BOX.west}–${BOX.east}, lat ${BOX.south}–${BOX.north}; synthetic demo data`);
@@ -183,7 +262,13 @@ async function parent(): Promise<void> {
 }
 
 const childIdx = process.argv.indexOf("--child");
-if (childIdx >= 0) {
+if (process.argv.includes("--edition-child")) {
+  const t = arg("threads", "");
+  editionChild(t ? Number(t) : undefined).catch((e: unknown) => {
+    console.error(e instanceof Error ? (e.stack ?? e.message) : e);
+    process.exitCode = 1;
+  });
+} else if (childIdx >= 0) {
   const t = arg("threads", "");
   child(Number(process.argv[childIdx + 1]) as CaseId, arg("out", ""), t ? Number(t) : undefined).catch((e: unknown) => {
     console.error(e instanceof Error ? (e.stack ?? e.message) : e);
