@@ -6,6 +6,7 @@
 import { GeostatsError } from "./errors";
 import { type GridSpec, gridCellCentres } from "./grid";
 import { type KrigingEvaluator, type KrigingModel, readTargetDrift, sortNeighbourRow } from "./kriging";
+import { permuteRows, scatter, spatialOrder } from "./order";
 import { type NeighbourSearcher, type NeighbourTable, type PointsInput, type StationSet, readPoints } from "./stations";
 
 /** Where the targets come from: explicit points, or the cells of a grid. */
@@ -172,6 +173,21 @@ export function predictSurfaces(
   const wantVar = options.variance ?? true;
   const drifts = models.map((m, i) => readTargetDrift(options.drifts?.[i] ?? undefined, t, m.driftCovariates));
   const outputs = models.map(() => ({ value: new Arr(t), variance: wantVar ? new Arr(t) : null }));
-  new SurfaceBatch(models).run({ kind: "points", xy }, 0, t, drifts, outputs);
-  return outputs;
+  // work in the targets' kd order (neighbouring targets reuse factorised systems), answer in theirs
+  const order = spatialOrder(xy);
+  if (!order) {
+    new SurfaceBatch(models).run({ kind: "points", xy }, 0, t, drifts, outputs);
+    return outputs;
+  }
+  const sortedDrifts = drifts.map((d, i) => (d ? permuteRows(d, order, models[i].driftCovariates) : null));
+  new SurfaceBatch(models).run({ kind: "points", xy: permuteRows(xy, order, 2) }, 0, t, sortedDrifts, outputs);
+  return unpermute(outputs, order);
+}
+
+/** Planes computed in `order`, returned in the caller's order. */
+export function unpermute(outputs: SurfaceOutput[], order: Int32Array): SurfaceOutput[] {
+  return outputs.map((o) => ({
+    value: scatter(o.value, order, (n) => (o.value instanceof Float32Array ? new Float32Array(n) : new Float64Array(n))),
+    variance: o.variance ? scatter(o.variance, order, (n) => (o.variance instanceof Float32Array ? new Float32Array(n) : new Float64Array(n))) : null,
+  }));
 }

@@ -16,11 +16,12 @@ import os from "node:os";
 import { setImmediate as yieldToEventLoop } from "node:timers/promises";
 import { fileURLToPath } from "node:url";
 import { Worker } from "node:worker_threads";
-import { SurfaceBatch, type SurfaceOutput, type TargetSource } from "./batch";
+import { SurfaceBatch, type SurfaceOutput, type TargetSource, unpermute } from "./batch";
 import { GeostatsError } from "./errors";
 import { type GridSpec, checkGrid } from "./grid";
 import { type KrigingModel, readTargetDrift } from "./kriging";
 import { CONTROL_ABORT, CONTROL_NEXT, type WorkerJob, type WorkerMessage } from "./grid-protocol";
+import { permuteRows, spatialOrder } from "./order";
 import { serializeKrigingModel } from "./serialize";
 import { type PointsInput, readPoints, normaliseCoordinates } from "./stations";
 
@@ -79,7 +80,12 @@ export async function krigeTargets(options: TargetsOptions): Promise<SurfaceOutp
   normaliseCoordinates(xy, models[0].coordinates, "targets");
   const total = xy.length >> 1;
   const drifts = models.map((m, i) => readTargetDrift(options.drifts?.[i] ?? undefined, total, m.driftCovariates));
-  return run(models, { kind: "points", xy }, total, drifts, null, { chunk: 2048, ...options });
+  // work in the targets' kd order (neighbouring targets reuse factorised systems), answer in theirs
+  const order = spatialOrder(xy);
+  if (!order) return run(models, { kind: "points", xy }, total, drifts, null, { chunk: 2048, ...options });
+  const sortedDrifts = drifts.map((d, i) => (d ? permuteRows(d, order, models[i].driftCovariates) : null));
+  const planes = await run(models, { kind: "points", xy: permuteRows(xy, order, 2) }, total, sortedDrifts, null, { chunk: 2048, ...options });
+  return unpermute(planes, order);
 }
 
 function asList(models: KrigingModel | readonly KrigingModel[]): readonly KrigingModel[] {

@@ -19,9 +19,10 @@
 import { type CoordinateSystem } from "./distance";
 import { GeostatsError } from "./errors";
 import { GROUP, backSolve, cholesky, dot, forwardSolve, forwardSolveGroup } from "./linalg";
+import { permuteRows, spatialOrder } from "./order";
 import { type NeighbourSearcher, type NeighbourTable, type PointsInput, StationSet, readPoints } from "./stations";
 import { type VariogramModel, checkVariogram, covariance, readDrift, readValues } from "./variogram";
-import { WasmGroupSolver } from "./wasm-kernels";
+import { WasmFactoriser, WasmGroupSolver } from "./wasm-kernels";
 
 export interface KrigingModelOptions {
   /** A shared StationSet, or coordinates + points. */
@@ -263,7 +264,7 @@ export class KrigingModel {
       const n = this.stations.count;
       const sys = new NeighbourSystem(n, this.driftCovariates + 1);
       for (let i = 0; i < n; i++) sys.idx[i] = i;
-      factorise(this, sys, n, new Float64Array(n));
+      factorise(this, sys, n, new Float64Array(n), WasmFactoriser.create());
       this.globalSystem = sys;
     }
     return this.globalSystem;
@@ -298,7 +299,30 @@ export class KrigingModel {
     const Arr = options.precision === "float32" ? Float32Array : Float64Array;
     const out: PredictionPlanes = { value: new Arr(t), variance: wantVar ? new Arr(t) : null };
     const drift = readTargetDrift(options.drift, t, this.driftCovariates);
-    this.evaluator().run({ xy, from: 0, to: t, drift, table: options.neighbours ?? null, rows: null, value: out.value, variance: out.variance, outOffset: 0 });
+    // without a given neighbour table, work in the targets' kd order (more reuse of factorised
+    // systems) and write the answers back in the caller's order — identical results
+    const order = options.neighbours ? null : spatialOrder(xy);
+    if (!order) {
+      this.evaluator().run({ xy, from: 0, to: t, drift, table: options.neighbours ?? null, rows: null, value: out.value, variance: out.variance, outOffset: 0 });
+      return out;
+    }
+    const sorted: PredictionPlanes = { value: new Arr(t), variance: wantVar ? new Arr(t) : null };
+    const q = this.driftCovariates;
+    this.evaluator().run({
+      xy: permuteRows(xy, order, 2),
+      from: 0,
+      to: t,
+      drift: drift ? permuteRows(drift, order, q) : null,
+      table: null,
+      rows: null,
+      value: sorted.value,
+      variance: sorted.variance,
+      outOffset: 0,
+    });
+    for (let j = 0; j < t; j++) {
+      out.value[order[j]] = sorted.value[j];
+      if (out.variance && sorted.variance) out.variance[order[j]] = sorted.variance[j];
+    }
     return out;
   }
 }
@@ -329,11 +353,18 @@ export function readTargetDrift(
   return out;
 }
 
+let group8 = new Float64Array(8 * 64);
+/** A module-level scratch buffer of at least `size` doubles (factorisation is not re-entrant). */
+function scratch8(size: number): Float64Array {
+  if (group8.length < size) group8 = new Float64Array(size);
+  return group8;
+}
+
 /**
  * Factorise the kriging system of `sys.idx[0 … m)` (ascending station indices). Throws a
  * GeostatsError naming the cause when the system is singular.
  */
-function factorise(model: KrigingModel, sys: NeighbourSystem, m: number, scratch: Float64Array): void {
+function factorise(model: KrigingModel, sys: NeighbourSystem, m: number, scratch: Float64Array, wasm: WasmFactoriser | null = null): void {
   sys.valid = false;
   sys.m = m;
   const n = model.stations.count;
@@ -350,19 +381,42 @@ function factorise(model: KrigingModel, sys: NeighbourSystem, m: number, scratch
     const li = i * cap;
     for (let j = 0; j <= i; j++) L[li + j] = C[row + rk[j]];
   }
-  const bad = chol(L, m, cap);
+  // the WebAssembly kernel and the TypeScript one give bit-identical factors
+  const bad = wasm && cap === m ? wasm.cholesky(L, m, 1e-13) : chol(L, m, cap);
   if (bad >= 0) throw diagnoseSingular(model, sys, m, bad);
   for (let i = 0; i < m; i++) sys.invDiag[i] = 1 / L[i * cap + i];
   if (m < p) {
     throw new GeostatsError("too-few-points", `only ${m} stations for ${p} drift terms (intercept + ${p - 1} covariates)`, "maxNeighbors");
   }
-  // Q = L⁻¹F (column-major)
+  // Q = L⁻¹F (column-major) and y = L⁻¹z, solved together as up to eight right-hand sides
   const F = model.design;
   const Q = sys.Q;
-  for (let c = 0; c < p; c++) {
-    const off = c * cap;
-    for (let i = 0; i < m; i++) Q[off + i] = F[idx[i] * p + c];
-    fwd(L, m, cap, Q, off);
+  const z = model.values;
+  const y = scratch;
+  if (p + 1 <= GROUP) {
+    const B = scratch8(8 * m);
+    B.fill(0, 0, 8 * m);
+    for (let i = 0; i < m; i++) {
+      const o = 8 * i;
+      const fi = idx[i] * p;
+      for (let c = 0; c < p; c++) B[o + c] = F[fi + c];
+      B[o + p] = z[idx[i]];
+    }
+    if (wasm && cap === m) wasm.forwardSolve8(sys.invDiag, B);
+    else fwdGroup(L, sys.invDiag, m, cap, B);
+    for (let i = 0; i < m; i++) {
+      const o = 8 * i;
+      for (let c = 0; c < p; c++) Q[c * cap + i] = B[o + c];
+      y[i] = B[o + p];
+    }
+  } else {
+    for (let c = 0; c < p; c++) {
+      const off = c * cap;
+      for (let i = 0; i < m; i++) Q[off + i] = F[idx[i] * p + c];
+      fwd(L, m, cap, Q, off);
+    }
+    for (let i = 0; i < m; i++) y[i] = z[idx[i]];
+    fwd(L, m, cap, y, 0);
   }
   // M = QᵀQ → R
   const R = sys.R;
@@ -384,11 +438,7 @@ function factorise(model: KrigingModel, sys: NeighbourSystem, m: number, scratch
       "drift.points",
     );
   }
-  // y = L⁻¹z, β = M⁻¹Qᵀy, r = L⁻ᵀ(y − Qβ)
-  const y = scratch;
-  const z = model.values;
-  for (let i = 0; i < m; i++) y[i] = z[idx[i]];
-  fwd(L, m, cap, y, 0);
+  // β = M⁻¹Qᵀy, r = L⁻ᵀ(y − Qβ)
   const beta = sys.beta;
   for (let c = 0; c < p; c++) {
     let s = 0;
@@ -487,6 +537,8 @@ export class KrigingEvaluator {
   private searcher: NeighbourSearcher | null = null;
   /** The global factor in WebAssembly memory (SIMD solve of GROUP targets), or null if unavailable. */
   private wasm: WasmGroupSolver | null | undefined;
+  /** WebAssembly scratch for factorising neighbour systems (null without WebAssembly SIMD). */
+  private readonly factoriser = WasmFactoriser.create();
   /** Statistics: how many neighbour systems were factorised / reused. */
   factorisations = 0;
   reuses = 0;
@@ -737,7 +789,7 @@ export class KrigingEvaluator {
     }
     for (let i = 0; i < k; i++) sys.idx[i] = sorted[off + i];
     this.slotHash[slot] = h;
-    factorise(this.model, sys, k, this.scratch);
+    factorise(this.model, sys, k, this.scratch, this.factoriser);
     this.factorisations++;
     return sys;
   }

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { GROUP, forwardSolveGroup } from "@/lib/geostats/linalg";
-import { WasmGroupSolver, wasmSimdAvailable } from "@/lib/geostats/wasm-kernels";
+import { GROUP, cholesky, forwardSolveGroup } from "@/lib/geostats/linalg";
+import { WasmFactoriser, WasmGroupSolver, wasmSimdAvailable } from "@/lib/geostats/wasm-kernels";
 import { rng } from "./fixtures";
 
 describe("WebAssembly SIMD forward solve", () => {
@@ -32,5 +32,33 @@ describe("WebAssembly SIMD forward solve", () => {
         expect(s).toBeCloseTo(original[8 * i + 3], 10);
       }
     }
+  });
+
+  it("the Cholesky kernel is bit-identical to the TypeScript one and reports the same singular row", () => {
+    const r = rng(4);
+    const f = WasmFactoriser.create();
+    expect(f).not.toBeNull();
+    for (const m of [1, 2, 3, 5, 8, 13, 24, 32, 65, 150]) {
+      // an exponential covariance matrix of random points (SPD)
+      const pts = Array.from({ length: m }, () => [1000 * r(), 1000 * r()]);
+      const a = new Float64Array(m * m);
+      for (let i = 0; i < m; i++) for (let j = 0; j < m; j++) a[i * m + j] = i === j ? 1.2 : Math.exp(-Math.hypot(pts[i][0] - pts[j][0], pts[i][1] - pts[j][1]) / 300);
+      const js = Float64Array.from(a);
+      const wa = Float64Array.from(a);
+      expect(cholesky(js, m, m)).toBe(-1);
+      expect(f?.cholesky(wa, m, 1e-13)).toBe(-1);
+      for (let i = 0; i < m; i++) for (let j = 0; j <= i; j++) expect(wa[i * m + j]).toBe(js[i * m + j]);
+      // eight right-hand sides with the factor just computed
+      const inv = Float64Array.from({ length: m }, (_, i) => 1 / js[i * m + i]);
+      const b = Float64Array.from({ length: 8 * m }, () => r());
+      const b2 = Float64Array.from(b);
+      f?.forwardSolve8(inv, b);
+      forwardSolveGroup(js, inv, m, m, b2);
+      expect(Array.from(b)).toEqual(Array.from(b2));
+    }
+    // a singular matrix (two identical rows) fails at the same row in both
+    const s = new Float64Array([1, 1, 0.5, 1, 1, 0.5, 0.5, 0.5, 1]);
+    expect(f?.cholesky(Float64Array.from(s), 3, 1e-13)).toBe(cholesky(Float64Array.from(s), 3, 3));
+    expect(cholesky(Float64Array.from(s), 3, 3)).toBe(1);
   });
 });
