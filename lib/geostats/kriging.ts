@@ -353,6 +353,77 @@ export function readTargetDrift(
   return out;
 }
 
+/** out[b] = Σ_i X[8i + b]·w[i] for the eight interleaved vectors of X (eight running sums). */
+function dotGroup(X: Float64Array, w: Float64Array, n: number, out: Float64Array): void {
+  let s0 = 0;
+  let s1 = 0;
+  let s2 = 0;
+  let s3 = 0;
+  let s4 = 0;
+  let s5 = 0;
+  let s6 = 0;
+  let s7 = 0;
+  for (let i = 0; i < n; i++) {
+    const v = w[i];
+    const o = 8 * i;
+    s0 += X[o] * v;
+    s1 += X[o + 1] * v;
+    s2 += X[o + 2] * v;
+    s3 += X[o + 3] * v;
+    s4 += X[o + 4] * v;
+    s5 += X[o + 5] * v;
+    s6 += X[o + 6] * v;
+    s7 += X[o + 7] * v;
+  }
+  out[0] = s0;
+  out[1] = s1;
+  out[2] = s2;
+  out[3] = s3;
+  out[4] = s4;
+  out[5] = s5;
+  out[6] = s6;
+  out[7] = s7;
+}
+
+/** out[b] = Σ_i X[8i + b]² for the eight interleaved vectors of X. */
+function squaresGroup(X: Float64Array, n: number, out: Float64Array): void {
+  let s0 = 0;
+  let s1 = 0;
+  let s2 = 0;
+  let s3 = 0;
+  let s4 = 0;
+  let s5 = 0;
+  let s6 = 0;
+  let s7 = 0;
+  for (let i = 0; i < n; i++) {
+    const o = 8 * i;
+    const a0 = X[o];
+    const a1 = X[o + 1];
+    const a2 = X[o + 2];
+    const a3 = X[o + 3];
+    const a4 = X[o + 4];
+    const a5 = X[o + 5];
+    const a6 = X[o + 6];
+    const a7 = X[o + 7];
+    s0 += a0 * a0;
+    s1 += a1 * a1;
+    s2 += a2 * a2;
+    s3 += a3 * a3;
+    s4 += a4 * a4;
+    s5 += a5 * a5;
+    s6 += a6 * a6;
+    s7 += a7 * a7;
+  }
+  out[0] = s0;
+  out[1] = s1;
+  out[2] = s2;
+  out[3] = s3;
+  out[4] = s4;
+  out[5] = s5;
+  out[6] = s6;
+  out[7] = s7;
+}
+
 let group8 = new Float64Array(8 * 64);
 /** A module-level scratch buffer of at least `size` doubles (factorisation is not re-entrant). */
 function scratch8(size: number): Float64Array {
@@ -678,12 +749,7 @@ export class KrigingEvaluator {
     for (let b = 0; b < g; b++) this.covariances(this.rowsG, b * n, n, X, GROUP, b);
     // predictions: f0ᵀβ + c0ᵀr, all targets in one pass over the stations
     const acc = this.groupAcc;
-    acc.fill(0);
-    for (let i = 0; i < n; i++) {
-      const ri = r[i];
-      const o = GROUP * i;
-      for (let b = 0; b < GROUP; b++) acc[b] += X[o + b] * ri;
-    }
+    dotGroup(X, r, n, acc);
     for (let b = 0; b < g; b++) {
       const t = group[b];
       let v = beta[0];
@@ -694,25 +760,13 @@ export class KrigingEvaluator {
     if (this.wasm === undefined) this.wasm = GROUP === 8 ? WasmGroupSolver.create(sys.L, sys.invDiag, n, sys.cap) : null;
     if (this.wasm) this.wasm.solve(X);
     else fwdGroup(sys.L, sys.invDiag, n, sys.cap, X);
-    // aᵀa and Qᵀa for all targets in one pass
+    // aᵀa and Qᵀa for all targets
     const aa = this.groupAcc;
-    aa.fill(0);
+    squaresGroup(X, n, aa);
     const qa = this.groupQa;
-    qa.fill(0);
     const Q = sys.Q;
     const cap = sys.cap;
-    for (let i = 0; i < n; i++) {
-      const o = GROUP * i;
-      for (let b = 0; b < GROUP; b++) {
-        const ai = X[o + b];
-        aa[b] += ai * ai;
-      }
-      for (let c = 0; c < p; c++) {
-        const qi = Q[c * cap + i];
-        const oc = c * GROUP;
-        for (let b = 0; b < GROUP; b++) qa[oc + b] += qi * X[o + b];
-      }
-    }
+    for (let c = 0; c < p; c++) dotGroup(X, Q.subarray(c * cap, c * cap + n), n, qa.subarray(c * GROUP, c * GROUP + GROUP));
     const f0 = this.f0;
     const u = this.u;
     const sill = this.model.sill;
