@@ -73,11 +73,14 @@ async function child(id: CaseId, out: string, threads: number | undefined): Prom
   const c = CASES[id];
   const pts = stations(c.stations);
   const t0 = performance.now();
+  const cpu0 = process.cpuUsage();
   const set = createStationSet({ coordinates: "lonlat", points: pts.map((p) => [p[0], p[1]]) });
   const model = createKrigingModel({ stations: set, values: pts.map((p) => p[2]), variogram: VARIOGRAM, maxNeighbors: c.maxNeighbors });
   const grid = gridFromBounds(BOX);
   const [planes] = await krigeGrid({ grid, models: model, threads });
   const wallMs = performance.now() - t0;
+  const cpu = process.cpuUsage(cpu0); // the whole process: all threads
+  const cpuMs = (cpu.user + cpu.system) / 1000;
   const cells = grid.nx * grid.ny;
   const buf = new Float64Array(2 * cells);
   for (let i = 0; i < cells; i++) {
@@ -86,7 +89,7 @@ async function child(id: CaseId, out: string, threads: number | undefined): Prom
   }
   writeFileSync(out, Buffer.from(buf.buffer));
   // maxRSS: the process's resident-set high-water mark (KB on Linux), worker threads included
-  console.log(JSON.stringify({ wallMs, maxRssKB: process.resourceUsage().maxRSS }));
+  console.log(JSON.stringify({ wallMs, cpuMs, maxRssKB: process.resourceUsage().maxRSS }));
 }
 
 // ---------------------------------------------------------------- edition-sized build
@@ -204,6 +207,7 @@ async function parent(): Promise<void> {
       writeFileSync(path.join(dir, "params.csv"), `nugget,psill,range,nmax,targets\n${VARIOGRAM.nugget},${VARIOGRAM.psill},${VARIOGRAM.range},${c.maxNeighbors ?? 0},${cells}\n`);
 
       const times: number[] = [];
+      const cpus: number[] = [];
       const rss: number[] = [];
       const procTimes: number[] = [];
       for (let r = 0; r < runs; r++) {
@@ -214,22 +218,30 @@ async function parent(): Promise<void> {
         });
         procTimes.push(performance.now() - t0);
         if (res.status !== 0) throw new Error(`Rainprint run failed: ${res.stderr}`);
-        const line = JSON.parse(res.stdout.trim().split("\n").pop() as string) as { wallMs: number; maxRssKB: number };
+        const line = JSON.parse(res.stdout.trim().split("\n").pop() as string) as { wallMs: number; cpuMs: number; maxRssKB: number };
         times.push(line.wallMs);
+        cpus.push(line.cpuMs);
         rss.push(line.maxRssKB);
       }
       const ours = new Float64Array(readFileSync(path.join(dir, "rainprint.bin")).buffer.slice(0));
       console.log(`\ncase ${id}: ${c.label}, ${cells} cells`);
-      console.log(`  Rainprint: wall ${(median(times) / 1000).toFixed(2)} s median of ${runs} (runs: ${times.map((t) => (t / 1000).toFixed(2)).join(", ")} s; process incl. start-up ${(median(procTimes) / 1000).toFixed(2)} s), peak RSS ${(median(rss) / 1024).toFixed(0)} MB (max ${(Math.max(...rss) / 1024).toFixed(0)} MB)`);
+      console.log(
+        `  Rainprint: wall ${(median(times) / 1000).toFixed(2)} s median of ${runs} (runs: ${times.map((t) => (t / 1000).toFixed(2)).join(", ")} s; ` +
+          `process incl. start-up ${(median(procTimes) / 1000).toFixed(2)} s), CPU ${(median(cpus) / 1000).toFixed(2)} s (all threads), ` +
+          `peak RSS ${(median(rss) / 1024).toFixed(0)} MB (max ${(Math.max(...rss) / 1024).toFixed(0)} MB)`,
+      );
       if (!withGstat) continue;
       const gTimes: number[] = [];
+      const gCpu: number[] = [];
       const gProc: number[] = [];
       for (let r = 0; r < gstatRuns; r++) {
         const t0 = performance.now();
         const g = spawnSync("Rscript", ["scripts/bench/krige-gstat.R", dir], { encoding: "utf8" });
         gProc.push(performance.now() - t0);
         if (g.status !== 0) throw new Error(`gstat run failed: ${g.stderr}`);
-        gTimes.push(Number(g.stdout.trim().split("\n").pop()) * 1000);
+        const [elapsed, cpu] = (g.stdout.trim().split("\n").pop() as string).split(/\s+/).map(Number);
+        gTimes.push(elapsed * 1000);
+        gCpu.push(cpu * 1000);
       }
       const pred = new Float64Array(readFileSync(path.join(dir, "pred.bin")).buffer.slice(0));
       const vari = new Float64Array(readFileSync(path.join(dir, "var.bin")).buffer.slice(0));
@@ -246,9 +258,15 @@ async function parent(): Promise<void> {
         dVar = Math.max(dVar, ev / Math.abs(vari[i]));
       }
       const gMed = median(gTimes);
-      console.log(`  gstat:     krige() ${(gMed / 1000).toFixed(2)} s median of ${gstatRuns} (runs: ${gTimes.map((t) => (t / 1000).toFixed(2)).join(", ")} s; Rscript incl. start-up ${(median(gProc) / 1000).toFixed(2)} s)`);
+      console.log(
+        `  gstat:     krige() ${(gMed / 1000).toFixed(2)} s median of ${gstatRuns} (runs: ${gTimes.map((t) => (t / 1000).toFixed(2)).join(", ")} s; ` +
+          `Rscript incl. start-up ${(median(gProc) / 1000).toFixed(2)} s), CPU ${(median(gCpu) / 1000).toFixed(2)} s`,
+      );
       const goal = id === 1 ? 10 : 4;
-      console.log(`  ratio:     Rainprint / gstat = ${(median(times) / gMed).toFixed(3)} (1/${(gMed / median(times)).toFixed(1)}; goal ≤ 1/${goal})`);
+      console.log(
+        `  ratio:     Rainprint / gstat = ${(median(times) / gMed).toFixed(3)} wall (1/${(gMed / median(times)).toFixed(1)}; goal ≤ 1/${goal}), ` +
+          `${(median(cpus) / median(gCpu)).toFixed(3)} CPU (1/${(median(gCpu) / median(cpus)).toFixed(1)})`,
+      );
       console.log(`  largest difference: prediction ${dPred.toExponential(2)} relative (${aPred.toExponential(2)} ‰ absolute), variance ${dVar.toExponential(2)} relative (${aVar.toExponential(2)} absolute); goal 1e-6 (Rainprint stores Float32 planes)`);
     } finally {
       rmSync(dir, { recursive: true, force: true });
