@@ -1,3 +1,5 @@
+import { readFileSync } from "node:fs";
+import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { SurfaceBatch, createKrigingModel, createStationSet, gridCellCentre, gridCellCentres, gridFromBounds } from "@/lib/geostats";
 import { krigeGrid, krigeTargets } from "@/lib/geostats/grid-runner";
@@ -139,5 +141,26 @@ describe("grid runner with worker threads", () => {
     await expect(krigeGrid({ grid, models: uk })).rejects.toMatchObject({ field: "drift.targets" });
     const other = setup().local;
     await expect(krigeGrid({ grid, models: [local, other] })).rejects.toMatchObject({ field: "models" });
+  });
+});
+
+describe("module boundaries", () => {
+  it("the pure engine (lib/geostats/index.ts) reaches no worker_threads and no Node built-in, so Next.js server code can import it", () => {
+    const dir = path.resolve(import.meta.dirname, "../../../lib/geostats");
+    const seen = new Set<string>();
+    const visit = (file: string): void => {
+      if (seen.has(file)) return;
+      seen.add(file);
+      const text = readFileSync(path.join(dir, `${file}.ts`), "utf8");
+      for (const m of text.matchAll(/from "([^"]+)"/g)) {
+        const spec = m[1];
+        expect(spec.startsWith("node:"), `${file}.ts imports ${spec}`).toBe(false);
+        if (spec.startsWith("./")) visit(spec.slice(2));
+      }
+    };
+    visit("index");
+    expect(seen.has("kriging")).toBe(true);
+    expect(seen.has("grid-runner")).toBe(false);
+    expect(seen.has("job")).toBe(false);
   });
 });
