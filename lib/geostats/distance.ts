@@ -7,9 +7,9 @@
  *   sp (`spDists(..., longlat = TRUE)`) and gstat for long/lat data.
  */
 
-/** WGS84 equatorial radius in km — NIMA TR8350.2 (2000), table 3.1 [pub]. */
+/** WGS84 equatorial radius in km — the WGS84 defining parameter, as in sp/gstat's gcdist.c [pub]. */
 export const WGS84_A_KM = 6378.137;
-/** WGS84 flattening — NIMA TR8350.2 (2000), table 3.1 [pub]. */
+/** WGS84 flattening — the WGS84 defining parameter, as in sp/gstat's gcdist.c [pub]. */
 export const WGS84_F = 1 / 298.257223563;
 
 const DEG = Math.PI / 180;

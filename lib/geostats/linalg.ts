@@ -6,7 +6,7 @@
 /**
  * In-place Cholesky factorisation A = L·Lᵀ of the symmetric positive definite m × m matrix
  * stored in the lower triangle of `a` (row stride `stride`) — Golub & Van Loan, Matrix
- * Computations, alg. 4.2.1 [pub]. The strict upper triangle is not read or written.
+ * Computations, ch. 4 [mem]. The strict upper triangle is not read or written.
  *
  * Returns -1 on success, or the row where the pivot was not positive enough: a pivot below
  * `relTol` × the original diagonal element means the matrix is (numerically) singular.
@@ -108,7 +108,7 @@ export function backSolve(l: Float64Array, m: number, stride: number, b: Float64
 }
 
 /**
- * Ordinary least squares by Householder QR (Golub & Van Loan alg. 5.3.2 [pub]): X is n × p
+ * Ordinary least squares by Householder QR (Golub & Van Loan, Matrix Computations, ch. 5 [mem]): X is n × p
  * (row-major, copied), y has n entries. Returns the coefficients and residuals y − Xβ, or null
  * when X does not have full column rank (a column is, to rounding, a combination of the others).
  */

@@ -80,7 +80,7 @@ export interface EmpiricalVariogram {
   np: Float64Array;
   /** Mean pair distance per bin (km for lonlat). */
   dist: Float64Array;
-  /** Semivariance per bin: Σ(z_i − z_j)² / (2·N) — Matheron (1962) [pub]. */
+  /** Semivariance per bin: Σ(z_i − z_j)² / (2·N), the classical estimator — Matheron (1962) [mem]; gstat's sem.c [pub]. */
   gamma: Float64Array;
   /** Bin boundaries 0, w, 2w, …, cutoff (as gstat's `boundaries` attribute). */
   boundaries: Float64Array;
