@@ -353,8 +353,8 @@ export function readTargetDrift(
   return out;
 }
 
-/** out[b] = Σ_i X[8i + b]·w[i] for the eight interleaved vectors of X (eight running sums). */
-function dotGroup(X: Float64Array, w: Float64Array, n: number, out: Float64Array): void {
+/** out[oOff + b] = Σ_i X[8i + b]·w[wOff + i] for the eight interleaved vectors of X (eight running sums). */
+function dotGroup(X: Float64Array, w: Float64Array, n: number, out: Float64Array, wOff = 0, oOff = 0): void {
   let s0 = 0;
   let s1 = 0;
   let s2 = 0;
@@ -364,7 +364,7 @@ function dotGroup(X: Float64Array, w: Float64Array, n: number, out: Float64Array
   let s6 = 0;
   let s7 = 0;
   for (let i = 0; i < n; i++) {
-    const v = w[i];
+    const v = w[wOff + i];
     const o = 8 * i;
     s0 += X[o] * v;
     s1 += X[o + 1] * v;
@@ -375,14 +375,14 @@ function dotGroup(X: Float64Array, w: Float64Array, n: number, out: Float64Array
     s6 += X[o + 6] * v;
     s7 += X[o + 7] * v;
   }
-  out[0] = s0;
-  out[1] = s1;
-  out[2] = s2;
-  out[3] = s3;
-  out[4] = s4;
-  out[5] = s5;
-  out[6] = s6;
-  out[7] = s7;
+  out[oOff] = s0;
+  out[oOff + 1] = s1;
+  out[oOff + 2] = s2;
+  out[oOff + 3] = s3;
+  out[oOff + 4] = s4;
+  out[oOff + 5] = s5;
+  out[oOff + 6] = s6;
+  out[oOff + 7] = s7;
 }
 
 /** out[b] = Σ_i X[8i + b]² for the eight interleaved vectors of X. */
@@ -605,6 +605,9 @@ export class KrigingEvaluator {
   /** Per-target accumulators of a group (GROUP), and Qᵀa (p·GROUP). */
   private readonly groupAcc = new Float64Array(GROUP);
   private readonly groupQa: Float64Array;
+  /** GROUP interleaved right-hand sides for a local system (GROUP·k), and the group's drift rows. */
+  private readonly blockLocal: Float64Array;
+  private readonly groupF0: Float64Array;
   private searcher: NeighbourSearcher | null = null;
   /** The global factor in WebAssembly memory (SIMD solve of GROUP targets), or null if unavailable. */
   private wasm: WasmGroupSolver | null | undefined;
@@ -638,6 +641,8 @@ export class KrigingEvaluator {
     this.block = new Float64Array(model.isGlobal ? GROUP * n : 0);
     this.rowsG = new Float64Array(model.isGlobal ? GROUP * n : 0);
     this.groupQa = new Float64Array(GROUP * this.p);
+    this.blockLocal = new Float64Array(model.isGlobal ? 0 : GROUP * Math.max(1, this.k));
+    this.groupF0 = new Float64Array(GROUP * this.p);
   }
 
   private neighbourSearcher(): NeighbourSearcher {
@@ -675,8 +680,13 @@ export class KrigingEvaluator {
         // distances of the (not necessarily consecutive) targets to all stations, into rowsG
         for (let b = 0; b < g; b++) {
           const t = group[b];
-          if (rows) this.rowsG.set(rows.subarray((t - base) * n, (t - base + 1) * n), b * n);
-          else this.neighbourSearcher().all(xy[2 * (t - xyBase)], xy[2 * (t - xyBase) + 1], this.rowsG, b * n);
+          if (rows) {
+            const src = (t - base) * n;
+            const dst = b * n;
+            const rg = this.rowsG;
+            for (let i = 0; i < n; i++) rg[dst + i] = rows[src + i];
+          }
+          if (!rows) this.neighbourSearcher().all(xy[2 * (t - xyBase)], xy[2 * (t - xyBase) + 1], this.rowsG, b * n);
         }
         this.evaluateGroup(group, g, drift, value, variance, outOffset, from);
         g = 0;
@@ -693,6 +703,12 @@ export class KrigingEvaluator {
       flush();
       return;
     }
+    // Local neighbourhoods. Consecutive targets that share a neighbour set (adjacent grid cells
+    // usually do) are gathered into groups of up to GROUP and their variances solved together.
+    const k = this.k;
+    const sorted = args.sorted && table && table.k === k ? args.sorted : null;
+    this.groupSize = 0;
+    this.groupSys = null;
     for (let t = from; t < to; t++) {
       const o = outOffset + t - from;
       if (mask && mask[t] === 0) {
@@ -701,30 +717,118 @@ export class KrigingEvaluator {
         continue;
       }
       if (q > 0) for (let j = 0; j < q; j++) f0[j + 1] = (drift as Float64Array)[t * q + j];
-      const sorted = args.sorted;
-      if (sorted && table && table.k === this.k) {
-        const so = (t - base) * this.k;
-        this.evaluate(this.lookupSystem(sorted.index, so, sorted.hash[t - base]), sorted.distance, wantVar, so);
-        value[o] = this.outValue;
-        if (variance) variance[o] = this.outVariance;
-        continue;
-      }
-      let idx: Int32Array;
-      let dist: Float64Array;
-      let off: number;
-      if (table) {
-        idx = table.index;
-        dist = table.distance;
-        off = (t - base) * table.k;
+      let sIdx: Int32Array;
+      let sDist: Float64Array;
+      let so: number;
+      let h: number;
+      if (sorted) {
+        so = (t - base) * k;
+        sIdx = sorted.index;
+        sDist = sorted.distance;
+        h = sorted.hash[t - base];
       } else {
-        this.neighbourSearcher().nearest(xy[2 * (t - xyBase)], xy[2 * (t - xyBase) + 1], this.k, this.rowIdx, this.rowDist, 0);
-        idx = this.rowIdx;
-        dist = this.rowDist;
-        off = 0;
+        let idx: Int32Array;
+        let dist: Float64Array;
+        let off: number;
+        if (table) {
+          idx = table.index;
+          dist = table.distance;
+          off = (t - base) * table.k;
+        } else {
+          this.neighbourSearcher().nearest(xy[2 * (t - xyBase)], xy[2 * (t - xyBase) + 1], k, this.rowIdx, this.rowDist, 0);
+          idx = this.rowIdx;
+          dist = this.rowDist;
+          off = 0;
+        }
+        h = sortNeighbourRow(idx, dist, off, k, this.sortIdx, this.sortDist, 0);
+        sIdx = this.sortIdx;
+        sDist = this.sortDist;
+        so = 0;
       }
-      this.evaluate(this.localSystem(idx, dist, off), this.sortDist, wantVar);
-      value[o] = this.outValue;
-      if (variance) variance[o] = this.outVariance;
+      // same neighbour set as the open group? (compare before any cache lookup may reuse its slot)
+      const cur = this.groupSys;
+      let same = cur !== null && this.groupHash === h;
+      if (same) {
+        const ci = (cur as NeighbourSystem).idx;
+        for (let i = 0; i < k; i++) {
+          if (ci[i] !== sIdx[so + i]) {
+            same = false;
+            break;
+          }
+        }
+      }
+      if (!same) {
+        this.flushLocalGroup(drift, value, variance, outOffset, from);
+        this.groupSys = this.lookupSystem(sIdx, so, h);
+        this.groupHash = h;
+      } else {
+        this.reuses++;
+      }
+      this.addToLocalGroup(t, sDist, so, value, o, wantVar);
+      if (this.groupSize === GROUP) this.flushLocalGroup(drift, value, variance, outOffset, from);
+    }
+    this.flushLocalGroup(drift, value, variance, outOffset, from);
+    this.groupSys = null;
+  }
+
+  // ---- grouped evaluation of consecutive targets sharing one local system
+  private groupSys: NeighbourSystem | null = null;
+  private groupHash = 0;
+  private groupSize = 0;
+  private readonly groupTargets = new Int32Array(GROUP);
+
+  /** Covariances of target t into the group block, and its prediction f0ᵀβ + c0ᵀr. */
+  private addToLocalGroup(t: number, dist: Float64Array, dOff: number, value: Float64Array | Float32Array, o: number, wantVar: boolean): void {
+    const sys = this.groupSys as NeighbourSystem;
+    const m = sys.m;
+    const p = sys.p;
+    const b = this.groupSize;
+    const X = this.blockLocal;
+    this.covariances(dist, dOff, m, X, GROUP, b);
+    let v = 0;
+    const f0 = this.f0;
+    for (let c = 0; c < p; c++) v += f0[c] * sys.beta[c];
+    const r = sys.r;
+    let s = 0;
+    for (let i = 0; i < m; i++) s += X[GROUP * i + b] * r[i];
+    value[o] = v + s;
+    if (!wantVar) return;
+    for (let c = 1; c < p; c++) this.groupF0[b * p + c] = f0[c];
+    this.groupTargets[b] = t;
+    this.groupSize = b + 1;
+  }
+
+  /** Variances of the open group: one multi-right-hand-side solve with the shared factor. */
+  private flushLocalGroup(
+    _drift: Float64Array | null,
+    _value: Float64Array | Float32Array,
+    variance: Float64Array | Float32Array | null,
+    outOffset: number,
+    from: number,
+  ): void {
+    const g = this.groupSize;
+    this.groupSize = 0;
+    if (g === 0 || !variance) return;
+    const sys = this.groupSys as NeighbourSystem;
+    const m = sys.m;
+    const p = sys.p;
+    const X = this.blockLocal;
+    if (g < GROUP) for (let i = 0; i < m; i++) for (let b = g; b < GROUP; b++) X[GROUP * i + b] = 0;
+    fwdGroup(sys.L, sys.invDiag, m, sys.cap, X);
+    const aa = this.groupAcc;
+    squaresGroup(X, m, aa);
+    const qa = this.groupQa;
+    const cap = sys.cap;
+    for (let c = 0; c < p; c++) dotGroup(X, sys.Q, m, qa, c * cap, c * GROUP);
+    const u = this.u;
+    const sill = this.model.sill;
+    for (let b = 0; b < g; b++) {
+      u[0] = 1 - qa[b];
+      for (let c = 1; c < p; c++) u[c] = this.groupF0[b * p + c] - qa[c * GROUP + b];
+      fwd(sys.R, p, p, u, 0);
+      let uu = 0;
+      for (let c = 0; c < p; c++) uu += u[c] * u[c];
+      variance[outOffset + this.groupTargets[b] - from] = clampVariance(sill - aa[b] + uu, sill);
     }
   }
 
@@ -766,7 +870,7 @@ export class KrigingEvaluator {
     const qa = this.groupQa;
     const Q = sys.Q;
     const cap = sys.cap;
-    for (let c = 0; c < p; c++) dotGroup(X, Q.subarray(c * cap, c * cap + n), n, qa.subarray(c * GROUP, c * GROUP + GROUP));
+    for (let c = 0; c < p; c++) dotGroup(X, Q, n, qa, c * cap, c * GROUP);
     const f0 = this.f0;
     const u = this.u;
     const sill = this.model.sill;
@@ -899,14 +1003,17 @@ export class KrigingEvaluator {
       this.outVariance = NaN;
       return;
     }
-    // a = L⁻¹c0
+    // a = L⁻¹c0, with the same operations (and rounding) as one column of forwardSolveGroup
     const a = this.a;
     const L = sys.L;
     const inv = sys.invDiag;
     const cap = sys.cap;
     let aa = 0;
     for (let i = 0; i < m; i++) {
-      const ai = (c0[i] - dotp(L, i * cap, a, 0, i)) * inv[i];
+      const row = i * cap;
+      let s = c0[i];
+      for (let k = 0; k < i; k++) s -= L[row + k] * a[k];
+      const ai = s * inv[i];
       a[i] = ai;
       aa += ai * ai;
     }
