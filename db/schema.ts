@@ -339,6 +339,9 @@ export const editions = sqliteTable(
     isDemo: integer("is_demo", { mode: "boolean" }).notNull().default(false),
     createdAt: createdAt(),
     publishedAt: integer("published_at", { mode: "timestamp_ms" }),
+    /** Set when an admin withdraws a published edition (it stays citable, marked). */
+    withdrawnAt: integer("withdrawn_at", { mode: "timestamp_ms" }),
+    withdrawnReason: text("withdrawn_reason"),
   },
   (t) => [index("editions_status_idx").on(t.status, t.publishedAt)],
 );
@@ -360,6 +363,10 @@ export const editionStationMeans = sqliteTable(
     precipMm: real("precip_mm"),
     coverage: text("coverage", { mode: "json" }),
     included: integer("included", { mode: "boolean" }).notNull(),
+    /** The station's position when the edition was built (frozen with the means). */
+    lat: real("lat"),
+    lon: real("lon"),
+    elevationM: real("elevation_m"),
   },
   (t) => [primaryKey({ columns: [t.editionId, t.stationId, t.period] })],
 );
@@ -387,6 +394,11 @@ export const surfaces = sqliteTable(
     crossValidation: text("cross_validation", { mode: "json" }),
     /** min, max, mean of value and variance planes; station counts. */
     stats: text("stats", { mode: "json" }),
+    /**
+     * What the site predictor reloads: the fitted kriging model (lib/geostats krigingModelToJSON),
+     * the station codes in model order and the transform; null for derived surfaces.
+     */
+    model: text("model", { mode: "json" }),
   },
   (t) => [uniqueIndex("surfaces_edition_var_period_uq").on(t.editionId, t.variable, t.period)],
 );
