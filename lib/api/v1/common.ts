@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { DATA_LICENCE as LICENCE } from "@/lib/downloads/licence";
 
 // Shapes shared by several v1 endpoints, and the data terms every data answer
 // carries. Schemas with a `.meta({ id })` become named components of the
@@ -8,12 +9,12 @@ import { z } from "zod";
 export const SYNTHETIC_NOTICE = "synthetic demo data: invented for demonstration, not real measurements";
 
 /**
- * The licence station data is published under. A product decision kept in one place:
- * the API page, the document and every data answer read it from here.
+ * The licence station data is published under, as the API states it. Built from the one
+ * product-wide constant (lib/downloads/licence.ts) so the API, downloads and pages agree.
  */
 export const DATA_LICENCE = {
-  name: "CC BY 4.0",
-  url: "https://creativecommons.org/licenses/by/4.0/",
+  name: LICENCE.shortName,
+  url: LICENCE.url,
   note: "Credit the station operator and Rainprint as given in `credit`.",
 } as const;
 
