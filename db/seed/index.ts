@@ -4,6 +4,7 @@ import { getDb } from "../index";
 import { memberships, organizations, users } from "../schema";
 import demo from "./demo-accounts.json";
 import { seedDemoData } from "./demo-data";
+import { seedDemoEdition } from "./demo-edition";
 
 export type SeedProfile = "full" | "test";
 
@@ -15,6 +16,8 @@ export type SeedProfile = "full" | "test";
 export async function seedDemo(opts: { profile: SeedProfile }): Promise<void> {
   const accountIds = await seedAccounts();
   await seedStationsAndSamples({ profile: opts.profile, accountIds });
+  // The first edition (synthetic demo data), built from the accepted samples and published.
+  await seedDemoEdition({ profile: opts.profile, log: (m) => console.log(`[seed] ${m}`) });
 }
 
 /**

@@ -2,6 +2,8 @@ import "server-only";
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { getDb } from "@/db";
 import { editions, surfaces, SURFACE_VARIABLES, type SurfaceVariable } from "@/db/schema";
+import type { SurfaceGridSpec } from "@/lib/editions/types";
+import { readSurfacePlaneData } from "@/lib/surfaces/store";
 import type { SurfacePlane } from "./surface";
 
 // Which edition surfaces can be downloaded, and reading one plane of one.
@@ -55,20 +57,21 @@ export async function publishedEditionsWithSurfaces(limit = 10): Promise<
 }
 
 /**
- * One surface plane of an edition: the predicted values on the edition's grid.
- *
- * PENDING EDITIONS: the editions build (surfaces + surface_chunks, Float32
- * chunks) is being written in parallel. Until it provides the reader, this
- * answers "not found" (null) for every edition, and the download route says
- * so with a 404. Replace the body with the editions module's reader; the
- * contract: `{ grid: { lon0, lat0, dLon, dLat, nx, ny } (cell centres, row 0
- * northernmost), values: Float32Array (NaN = no value, index = row·nx + col),
- * meta: { editionId, variable, period, plane: "value", isDemo } }`, or null
- * when the edition has no such surface.
+ * One surface plane of an edition: the predicted values on the edition's grid, read from the
+ * surface store (lib/surfaces/store), or null when the edition has no such surface. The caller
+ * checks that the edition is published (findPublishedEdition).
  */
 export async function readSurfacePlane(editionId: string, variable: SurfaceVariable, period: number): Promise<SurfacePlane | null> {
-  void editionId;
-  void variable;
-  void period;
-  return null;
+  const db = getDb();
+  const row = await db
+    .select({ id: surfaces.id, grid: surfaces.grid, isDemo: editions.isDemo })
+    .from(surfaces)
+    .innerJoin(editions, eq(editions.id, surfaces.editionId))
+    .where(and(eq(surfaces.editionId, editionId), eq(surfaces.variable, variable), eq(surfaces.period, period)))
+    .get();
+  if (!row) return null;
+  const g = row.grid as SurfaceGridSpec;
+  const grid = { lon0: g.lon0, lat0: g.lat0, dLon: g.dLon, dLat: g.dLat, nx: g.nx, ny: g.ny };
+  const values = await readSurfacePlaneData(row.id, grid, "value");
+  return { grid, values, meta: { editionId, variable, period, plane: "value", isDemo: row.isDemo } };
 }

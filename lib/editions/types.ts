@@ -164,3 +164,27 @@ export interface EditionSummary {
   /** Seconds per stage of the build. */
   timings: Record<string, number>;
 }
+
+/** One station's change between two editions. */
+export interface EditionStationChange {
+  stationCode: string;
+  variable: "d18O" | "dExcess" | "precipMm";
+  /** 0 = annual. */
+  period: number;
+  previous: number;
+  current: number;
+  /** current − previous */
+  change: number;
+}
+
+/** `editions.diff`: what changed since the previous published edition. */
+export interface EditionDiff {
+  /** The edition compared against, or null for the first one. */
+  previous: string | null;
+  stationsAdded: string[];
+  stationsRemoved: string[];
+  /** Largest changes of the annual station means (by |change|, per variable). */
+  meanChanges: EditionStationChange[];
+  /** Largest changes of the annual surfaces' predicted values at the stations' cells. */
+  predictedChanges: EditionStationChange[];
+}

@@ -1,5 +1,6 @@
 import "server-only";
 import { env } from "@/lib/env";
+import { buildEditionJob } from "./handlers/build-edition";
 import { sendEmailJob } from "./handlers/send-email";
 import { testStepsJob } from "./handlers/test-steps";
 import type { JobHandler } from "./types";
@@ -9,6 +10,7 @@ import type { JobHandler } from "./types";
 export function jobRegistry(): Record<string, JobHandler<never>> {
   const registry: Record<string, JobHandler<never>> = {
     "send-email": sendEmailJob,
+    "build-edition": buildEditionJob,
   };
   // Test-only kinds, never available in a normal deployment.
   if (env().RAINPRINT_TEST === "1") registry["test-steps"] = testStepsJob;

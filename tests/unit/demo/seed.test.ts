@@ -38,8 +38,8 @@ describe("seeding the demo (test profile)", () => {
     expect(first.batches).toBe(scenario.batches.length);
     expect(first.samples).toBe(scenario.samples.length);
     expect(first.users).toBe(demoAccounts.accounts.length + scenario.people.length);
-    // One audit event per approved station and per decided batch.
-    expect(first.reviewEvents).toBe(scenario.stations.length + scenario.batches.filter((b) => b.status === "decided").length);
+    // One audit event per approved station and per decided batch, plus the seeded edition's build and publication.
+    expect(first.reviewEvents).toBe(scenario.stations.length + scenario.batches.filter((b) => b.status === "decided").length + 2);
   });
 
   it("stations are approved demo stations; invented contributors cannot sign in with a password", async () => {

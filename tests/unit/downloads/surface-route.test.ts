@@ -1,7 +1,7 @@
 // The edition-surface download route (app/api/downloads/editions/[edition]/[file])
 // with the plane reader replaced by a known plane: the gate, the 404s, and the
 // GeoTIFF and CSV it answers, decoded with the `geotiff` package and papaparse.
-// readSurfacePlane itself answers "not found" until the editions build provides it.
+// readSurfacePlane (the surface store reader) is replaced by known planes here.
 import { fromArrayBuffer } from "geotiff";
 import Papa from "papaparse";
 import { beforeAll, beforeEach, describe, expect, it, vi } from "vitest";
