@@ -34,7 +34,10 @@ export default function Home() {
           most users have: <em>what is the rain like where I work, where no one has a sampler?</em>
         </p>
         <div className="mt-6 flex flex-wrap gap-3">
-          <Link href="/sign-up" className="rounded bg-tarn-700 px-4 py-2 font-medium text-white hover:bg-tarn-800">
+          <Link href="/map" className="rounded bg-tarn-700 px-4 py-2 font-medium text-white hover:bg-tarn-800">
+            Explore the map
+          </Link>
+          <Link href="/sign-up" className="rounded border border-tarn-700 bg-white px-4 py-2 font-medium text-tarn-800 hover:bg-tarn-50">
             Create a free account
           </Link>
           <Link href="/sign-in" className="rounded border border-ink-300 bg-white px-4 py-2 font-medium text-ink-900 hover:bg-ink-50">

@@ -35,8 +35,14 @@ export const readoutQuery = z.strictObject({
 
 async function publicEdition(id: string): Promise<EditionRow> {
   const edition = await findPublicEdition(id);
-  if (!edition) throw errors.notFound(`There is no published edition “${id}”. The map lists the published editions.`);
+  if (!edition)
+    throw errors.notFound(id === "current" ? "No edition has been published yet." : `There is no published edition “${id}”. The map lists the published editions.`);
   return edition;
+}
+
+/** Answers naming "current" may change with the next publication; answers naming an edition do not. */
+export function mapCacheControl(editionParam: string): string {
+  return editionParam === "current" ? "public, max-age=60" : "public, max-age=3600";
 }
 
 export interface MapLegend {

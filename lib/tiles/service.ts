@@ -15,9 +15,8 @@ import { buildScale, type ColourScale } from "./scale";
 
 const surfaceCache = new Map<string, SurfaceRow[]>();
 
-/** A public (published or withdrawn) edition by id; "current" is not accepted here (tile URLs must be immutable). */
+/** A public (published or withdrawn) edition by id; "current" = the newest published one. */
 export async function findPublicEdition(id: string): Promise<EditionRow | null> {
-  if (id === "current") return null;
   return getEdition(id);
 }
 

@@ -77,6 +77,7 @@ const DOWNLOAD_PLANS: readonly Plan[] = ["researcher", "institution"];
 export const POLICY: PolicyEntry[] = [
   // ── public pages ──
   { file: "app/page.tsx", url: "/", expect: page.open() },
+  { file: "app/map/page.tsx", url: "/map", expect: page.open(), note: "the public map of the current edition" },
   { file: "app/sign-in/page.tsx", url: "/sign-in", expect: page.signedOutOnly("/account") },
   { file: "app/sign-in/check-email/page.tsx", url: "/sign-in/check-email", expect: page.open() },
   { file: "app/sign-up/page.tsx", url: "/sign-up", expect: page.open() },
@@ -115,6 +116,17 @@ export const POLICY: PolicyEntry[] = [
 
   // ── route handlers ──
   { file: "app/api/health/route.ts", url: "/api/health", expect: api.open() },
+  // ── the map: tiles and map data, public; "current" names the newest published edition ──
+  {
+    file: "app/api/tiles/[edition]/[variable]/[period]/[z]/[x]/[y]/route.ts",
+    url: "/api/tiles/current/d18O/0/0/0/0.png",
+    expect: api.open(302),
+    note: "public; “current” redirects to the edition's immutable tile address",
+  },
+  { file: "app/api/map/legend/route.ts", url: "/api/map/legend?edition=current&layer=d18O&period=0", expect: api.open() },
+  { file: "app/api/map/stations/route.ts", url: "/api/map/stations?edition=current&period=0", expect: api.open() },
+  { file: "app/api/map/readout/route.ts", url: "/api/map/readout?edition=current&period=0&lat=47.4&lon=8.5", expect: api.open() },
+  { file: "app/api/map/land/route.ts", url: "/api/map/land", expect: api.open() },
   { file: "app/api/auth/[...nextauth]/route.ts", url: "/api/auth/session", expect: api.open() },
   { file: "app/api/auth/[...nextauth]/route.ts", url: "/api/auth/signin/email", method: "POST", body: {}, expect: api.open(302), note: "without a CSRF token next-auth redirects back to sign-in" },
   { file: "app/api/account/sign-up/route.ts", url: "/api/account/sign-up", method: "POST", body: {}, expect: api.open(400) },

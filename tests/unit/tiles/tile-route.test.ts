@@ -148,6 +148,13 @@ describe("surface tiles", () => {
     expect((await get("2026.12.1/d18O/0/0/0/0.png", { "if-none-match": '"other"' })).status).toBe(200);
   });
 
+  it("redirects “current” to the newest published edition's immutable address", async () => {
+    const res = await get("current/d18O-sd/3/2/1/1.png");
+    expect(res.status).toBe(302);
+    expect(res.headers.get("location")).toBe("/api/tiles/2026.12.1/d18O-sd/3/2/1/1.png");
+    expect(res.headers.get("cache-control")).toBe("no-cache");
+  });
+
   it.each([
     ["2026.12.1/d18O/0/13/0/0.png", 400, /zoom runs from 0 to 12/],
     ["2026.12.1/d18O/0/3/8/0.png", 400, /no tile 3\/8\/0/],
@@ -159,7 +166,6 @@ describe("surface tiles", () => {
     ["2026.12.1/d17O/0/0/0/0.png", 404, /no map layer “d17O”/],
     ["2099.1.1/d18O/0/0/0/0.png", 404, /no published edition “2099\.1\.1”/],
     ["2027.1.1/d18O/0/0/0/0.png", 404, /no published edition/],
-    ["current/d18O/0/0/0/0.png", 404, /no published edition/],
     ["2026.12.1/d2H/0/0/0/0.png", 404, /has no d2H surface for period 0/],
     ["2026.12.1/dExcess/0/0/0/0.png", 404, /has no dExcess surface/],
   ])("%s → %i problem+json", async (path, status, detail) => {

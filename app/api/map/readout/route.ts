@@ -1,5 +1,5 @@
 import { route } from "@/lib/http/route";
-import { mapReadout, readoutQuery } from "@/lib/map/data";
+import { mapCacheControl, mapReadout, readoutQuery } from "@/lib/map/data";
 
 export const dynamic = "force-dynamic";
 export const runtime = "nodejs";
@@ -10,5 +10,5 @@ export const runtime = "nodejs";
  * elevation and the water line is /lookup.
  */
 export const GET = route({ auth: "public", anonymous: true, query: readoutQuery }, async ({ query }) =>
-  Response.json(await mapReadout(query), { headers: { "Cache-Control": "public, max-age=3600" } }),
+  Response.json(await mapReadout(query), { headers: { "Cache-Control": mapCacheControl(query.edition) } }),
 );

@@ -16,7 +16,8 @@ const INTEGER = /^(0|[1-9]\d{0,5})$/;
  * A 256-pixel web-mercator tile of one surface of a public edition:
  * /api/tiles/{edition}/{layer}/{period}/{z}/{x}/{y}.png, layer = d18O | d2H | dExcess | precipMm,
  * optionally with "-sd" for the uncertainty (1 standard deviation); period 0 = annual, 1–12 = months.
- * Open to everyone.
+ * "current" in place of the edition redirects (302, not cached) to the newest published edition's
+ * address. Open to everyone.
  */
 export const GET = route({ auth: "public", anonymous: true }, async ({ req, params }) => {
   const [editionId, layer, periodText, zText, xText, yFile] = ["edition", "variable", "period", "z", "x", "y"].map((k) => String(params[k]));
@@ -33,7 +34,18 @@ export const GET = route({ auth: "public", anonymous: true }, async ({ req, para
   if (!spec)
     throw errors.notFound(`There is no map layer “${layer}”. Layers: d18O, d2H, dExcess, precipMm, each also with -sd for its uncertainty (e.g. d18O-sd).`);
   const edition = await findPublicEdition(editionId);
-  if (!edition) throw errors.notFound(`There is no published edition “${editionId}”. Tile addresses name an edition by its id, e.g. 2026.12.1.`);
+  if (!edition)
+    throw errors.notFound(
+      editionId === "current"
+        ? "No edition has been published yet, so there are no tiles."
+        : `There is no published edition “${editionId}”. Tile addresses name an edition by its id, e.g. 2026.12.1 (or “current”, which redirects to the newest).`,
+    );
+  if (editionId === "current") {
+    // "current" moves when a new edition is published: send the caller to the immutable address.
+    const to = new URL(req.url);
+    to.pathname = `/api/tiles/${encodeURIComponent(edition.id)}/${layer}/${period}/${z}/${x}/${y}.png`;
+    return new Response(null, { status: 302, headers: { Location: to.pathname + to.search, "Cache-Control": "no-cache" } });
+  }
   const surface = await findSurface(edition.id, spec, period);
   const scale = surface ? await layerScale(edition.id, spec, period) : null;
   if (!surface || !scale) throw errors.notFound(`Edition ${edition.id} has no ${spec.variable} surface for period ${period}.`);
