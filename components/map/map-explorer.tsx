@@ -311,7 +311,7 @@ export default function MapExplorer({ editions, initial }: { editions: MapEditio
 
       <div className="grid gap-4 lg:grid-cols-[1fr_20rem]">
         <div className="relative h-[34rem] overflow-hidden rounded-md border border-ink-200">
-          <div ref={container} className="absolute inset-0" data-testid="map-canvas" data-tiles={template} data-ready={mapReady ? "true" : "false"} />
+          <div ref={container} className="absolute inset-0" data-testid="map-canvas" data-tiles={template} data-ready={mapReady ? "true" : "false"} data-stations={stations.length} />
           <div className="pointer-events-none absolute bottom-2 left-2 z-10">
             <div className="pointer-events-auto">
               <MapLegend legend={legend} loading={legendLoading} />

@@ -1,0 +1,102 @@
+import { mkdirSync } from "node:fs";
+import path from "node:path";
+import { PNG } from "pngjs";
+import type { Page, Response } from "playwright-core";
+import { describe, expect, it } from "vitest";
+import { withBrowser } from "./helpers/browser";
+
+// The public map in headless chromium (WebGL on SwiftShader) against the seeded demo edition:
+// the surface and stations show, switching variable, uncertainty and period changes the tile
+// requests, and clicking the map (or typing a point) fills the readout panel. A screenshot is
+// kept as test-results/map-browser.png.
+
+function waitForTile(page: Page, layerAndPeriod: string): Promise<Response> {
+  return page.waitForResponse((r) => r.url().includes("/api/tiles/") && r.url().includes(`/${layerAndPeriod}/`) && r.status() === 200, { timeout: 30_000 });
+}
+
+/** Share of the map's pixels drawn in a saturated colour (surface ramps), from a screenshot. */
+async function colouredShare(page: Page): Promise<number> {
+  const png = PNG.sync.read(await page.getByTestId("map-canvas").screenshot());
+  let coloured = 0;
+  for (let i = 0; i < png.data.length; i += 4) {
+    const [r, g, b] = [png.data[i], png.data[i + 1], png.data[i + 2]];
+    if (Math.max(r, g, b) - Math.min(r, g, b) > 40) coloured++;
+  }
+  return coloured / (png.width * png.height);
+}
+
+describe("the map in the browser", () => {
+  it("shows the surface and stations, switches layers and periods, and reads a clicked point", async () => {
+    await withBrowser("map-browser", async (page) => {
+      const firstTile = waitForTile(page, "d18O/0");
+      const stations = page.waitForResponse((r) => r.url().includes("/api/map/stations") && r.status() === 200);
+      await page.goto("/map");
+      await expect(page.getByRole("heading", { name: "Map", level: 1 }).isVisible()).resolves.toBe(true);
+      expect((await page.getByText("synthetic demo data").first().textContent()) ?? "").toContain("synthetic demo data");
+      await page.locator('[data-testid="map-canvas"][data-ready="true"]').waitFor({ timeout: 60_000 });
+      const tile = await firstTile;
+      expect(tile.headers()["content-type"]).toBe("image/png");
+      const fc = (await (await stations).json()) as { features: unknown[] };
+      expect(fc.features.length).toBeGreaterThan(20);
+      await page.locator(`[data-testid="map-canvas"][data-stations="${fc.features.length}"]`).waitFor();
+
+      // The legend is there with its units.
+      const legend = page.getByTestId("map-legend");
+      await legend.getByText("δ18O, ‰").waitFor();
+      expect(await legend.textContent()).toContain("Extrapolation");
+
+      // The surface is drawn: a good share of the map is in ramp colours.
+      await page.waitForTimeout(1500);
+      expect(await colouredShare(page)).toBeGreaterThan(0.05);
+
+      // Switching the variable, the period and the uncertainty layer asks for other tiles.
+      const dx = waitForTile(page, "dExcess/0");
+      await page.getByLabel("d-excess").check();
+      await dx;
+      await legend.getByText("d-excess, ‰").waitFor();
+      const july = waitForTile(page, "dExcess/7");
+      await page.getByLabel("Period").selectOption({ label: "July" });
+      await july;
+      const sd = waitForTile(page, "dExcess-sd/7");
+      await page.getByLabel("Uncertainty (1 sd)").check();
+      await sd;
+      await legend.getByText("Uncertainty of d-excess").waitFor();
+      expect(page.url()).toContain("layer=dExcess-sd");
+      expect(page.url()).toContain("period=7");
+
+      // Back to δ18O values, then click the middle of the map (10°E 20°N, on land).
+      await page.getByLabel("Predicted value").check();
+      await page.getByLabel("δ18O").check();
+      const box = (await page.getByTestId("map-canvas").boundingBox())!;
+      const readout = page.waitForResponse((r) => r.url().includes("/api/map/readout") && r.status() === 200);
+      await page.mouse.click(box.x + box.width / 2, box.y + box.height / 2);
+      const body = (await (await readout).json()) as { values: { d18O: { value: number } | null } };
+      expect(body.values.d18O).not.toBeNull();
+      const chosen = page.getByTestId("readout-chosen");
+      await chosen.waitFor();
+      expect(await chosen.textContent()).toMatch(/δ18O: −?\d+\.\d\d ± \d+\.\d\d ‰ VSMOW95% interval/);
+      const link = page.getByRole("link", { name: /Site lookup at/ });
+      expect(await link.getAttribute("href")).toMatch(/^\/lookup\?lat=-?\d+\.\d{3}&lon=-?\d+\.\d{3}$/);
+
+      mkdirSync(path.resolve("test-results"), { recursive: true });
+      await page.screenshot({ path: path.resolve("test-results", "map-browser.png"), fullPage: true });
+
+      // A typed point at sea: no value, said plainly; a bad one: a clear message.
+      await page.getByLabel("Latitude").fill("0");
+      await page.getByLabel("Longitude").fill("-150");
+      await page.getByRole("button", { name: "Read value" }).click();
+      await page.getByText("No surface value here").waitFor();
+      await page.getByLabel("Latitude").fill("95");
+      await page.getByRole("button", { name: "Read value" }).click();
+      await page.getByText("Enter a latitude from −90 to 90").waitFor();
+    });
+  }, 180_000);
+
+  it("is linked from the home page", async () => {
+    await withBrowser("map-front-door", async (page) => {
+      await page.goto("/");
+      await page.getByRole("link", { name: "Explore the map" }).click();
+      await page.waitForURL("**/map**");
+    });
+  }, 60_000);
+});
