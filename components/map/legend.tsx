@@ -40,6 +40,7 @@ export function MapLegend({ legend, loading }: { legend: LegendData | null; load
         {legend.units === "‰" ? <span className="font-normal text-ink-600"> (VSMOW)</span> : null}
         <span className="font-normal text-ink-600"> · {legend.periodLabel}</span>
       </p>
+      <div className="px-3">
       <div
         aria-hidden="true"
         className="mt-2 h-3 w-full rounded-sm border border-ink-300"
@@ -51,6 +52,7 @@ export function MapLegend({ legend, loading }: { legend: LegendData | null; load
             {num(t, decimals)}
           </span>
         ))}
+      </div>
       </div>
       <p className="sr-only">
         Colour scale {legend.ramp.name} from {num(legend.min, decimals)} to {num(legend.max, decimals)} {units}

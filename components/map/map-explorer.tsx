@@ -37,6 +37,7 @@ type StationFeature = {
 const SELECTABLE: readonly MapVariable[] = MAP_VARIABLES.filter((v) => v !== "precipMm");
 const PERIODS = Array.from({ length: 13 }, (_, p) => p);
 
+/** The tile address template (braces must stay unencoded: maplibre fills them in). */
 export function tileTemplate(s: MapSelection): string {
   return `/api/tiles/${encodeURIComponent(s.edition)}/${layerKey(s.variable, s.kind)}/${s.period}/{z}/{x}/{y}.png`;
 }
@@ -93,7 +94,7 @@ export default function MapExplorer({ editions, initial }: { editions: MapEditio
         version: 8,
         sources: {
           land: { type: "geojson", data: "/api/map/land", attribution: "Land: Natural Earth (public domain)" },
-          surface: { type: "raster", tiles: [new URL(template, window.location.origin).href], tileSize: 256, maxzoom: 12, attribution: "Rainprint" },
+          surface: { type: "raster", tiles: [window.location.origin + template], tileSize: 256, maxzoom: 12, attribution: "Rainprint" },
         },
         layers: [
           { id: "ocean", type: "background", paint: { "background-color": "#dde6ec" } },
@@ -142,7 +143,7 @@ export default function MapExplorer({ editions, initial }: { editions: MapEditio
     const map = mapRef.current;
     if (!map || !mapReady) return;
     const source = map.getSource("surface") as maplibregl.RasterTileSource | undefined;
-    source?.setTiles([new URL(template, window.location.origin).href]);
+    source?.setTiles([window.location.origin + template]);
   }, [template, mapReady]);
 
   // The legend of the layer.
@@ -311,7 +312,7 @@ export default function MapExplorer({ editions, initial }: { editions: MapEditio
 
       <div className="grid gap-4 lg:grid-cols-[1fr_20rem]">
         <div className="relative h-[34rem] overflow-hidden rounded-md border border-ink-200">
-          <div ref={container} className="absolute inset-0" data-testid="map-canvas" data-tiles={template} data-ready={mapReady ? "true" : "false"} data-stations={stations.length} />
+          <div ref={container} className="h-full w-full" data-testid="map-canvas" data-tiles={template} data-ready={mapReady ? "true" : "false"} data-stations={stations.length} />
           <div className="pointer-events-none absolute bottom-2 left-2 z-10">
             <div className="pointer-events-auto">
               <MapLegend legend={legend} loading={legendLoading} />

@@ -121,7 +121,9 @@ export function ReadoutPanel({ readout, variable, error, loading }: { readout: R
               elevation gradient at your site&apos;s elevation.
             </p>
           ) : null}
-          {readout.notes.map((n) => (
+          {readout.notes
+            .filter((n) => !(readout.seaLevelEquivalent && /^sea-level-equivalent/i.test(n)))
+            .map((n) => (
             <p key={n} className="text-xs text-ink-600">
               {n}
             </p>
