@@ -25,6 +25,17 @@ async function colouredShare(page: Page): Promise<number> {
   return coloured / (png.width * png.height);
 }
 
+/**
+ * Screen position of a point in the map's first view (centre 10°E 20°N, zoom 0.8; maplibre's
+ * 512-pixel world at zoom 0, web mercator).
+ */
+function screenOf(box: { x: number; y: number; width: number; height: number }, [lon, lat]: [number, number]) {
+  const world = 512 * 2 ** 0.8;
+  const px = (l: number) => ((l + 180) / 360) * world;
+  const py = (φ: number) => ((1 - Math.log(Math.tan(Math.PI / 4 + (φ * Math.PI) / 360)) / Math.PI) / 2) * world;
+  return { x: box.x + box.width / 2 + px(lon) - px(10), y: box.y + box.height / 2 + py(lat) - py(20) };
+}
+
 describe("the map in the browser", () => {
   it("shows the surface and stations, switches layers and periods, and reads a clicked point", async () => {
     await withBrowser("map-browser", async (page) => {
@@ -36,7 +47,7 @@ describe("the map in the browser", () => {
       await page.locator('[data-testid="map-canvas"][data-ready="true"]').waitFor({ timeout: 60_000 });
       const tile = await firstTile;
       expect(tile.headers()["content-type"]).toBe("image/png");
-      const fc = (await (await stations).json()) as { features: unknown[] };
+      const fc = (await (await stations).json()) as { features: { geometry: { coordinates: [number, number] }; properties: { name: string; included: boolean } }[] };
       expect(fc.features.length).toBeGreaterThan(20);
       await page.locator(`[data-testid="map-canvas"][data-stations="${fc.features.length}"]`).waitFor();
 
@@ -64,10 +75,22 @@ describe("the map in the browser", () => {
       expect(page.url()).toContain("layer=dExcess-sd");
       expect(page.url()).toContain("period=7");
 
-      // Back to δ18O values, then click the middle of the map (10°E 20°N, on land).
+      // Back to δ18O values; a station's tooltip names it and its mean.
       await page.getByLabel("Predicted value").check();
       await page.getByLabel("δ18O").check();
       const box = (await page.getByTestId("map-canvas").boundingBox())!;
+      const station = fc.features.find((f) => f.properties.included && Math.abs(f.geometry.coordinates[1]) < 60)!;
+      const at = screenOf(box, station.geometry.coordinates);
+      const tooltip = page.locator(".deck-tooltip");
+      for (const [dx, dy] of [[0, 0], [2, 0], [-2, 0], [0, 2], [0, -2]]) {
+        await page.mouse.move(at.x + dx, at.y + dy);
+        if (await tooltip.isVisible().catch(() => false)) break;
+        await page.waitForTimeout(300);
+      }
+      await tooltip.waitFor({ state: "visible", timeout: 5000 });
+      expect(await tooltip.textContent()).toContain("July mean δ18O:");
+
+      // Click the middle of the map (10°E 20°N, on land).
       const readout = page.waitForResponse((r) => r.url().includes("/api/map/readout") && r.status() === 200);
       await page.mouse.click(box.x + box.width / 2, box.y + box.height / 2);
       const body = (await (await readout).json()) as { values: { d18O: { value: number } | null } };
