@@ -2,7 +2,7 @@ import { mkdirSync } from "node:fs";
 import path from "node:path";
 import { PNG } from "pngjs";
 import type { Page, Response } from "playwright-core";
-import { describe, expect, it } from "vitest";
+import { describe, expect, inject, it } from "vitest";
 import { withBrowser } from "./helpers/browser";
 
 // The public map in headless chromium (WebGL on SwiftShader) against the seeded demo edition:
@@ -114,6 +114,26 @@ describe("the map in the browser", () => {
       await page.getByText("Enter a latitude from −90 to 90").waitFor();
     });
   }, 180_000);
+
+  it("serves tiles over HTTP with immutable caching, ETag and 304 (through the production server)", async () => {
+    const base = inject("baseUrl");
+    const moved = await fetch(`${base}/api/tiles/current/d18O/0/1/1/0.png`, { redirect: "manual" });
+    expect(moved.status).toBe(302);
+    const location = moved.headers.get("location")!;
+    expect(location).toMatch(/^\/api\/tiles\/[\w.]+\/d18O\/0\/1\/1\/0\.png$/);
+    const tile = await fetch(`${base}${location}`);
+    expect(tile.status).toBe(200);
+    expect(tile.headers.get("content-type")).toBe("image/png");
+    expect(tile.headers.get("cache-control")).toBe("public, max-age=31536000, immutable");
+    const png = PNG.sync.read(Buffer.from(await tile.arrayBuffer()));
+    expect([png.width, png.height]).toEqual([256, 256]);
+    const etag = tile.headers.get("etag")!;
+    const again = await fetch(`${base}${location}`, { headers: { "If-None-Match": etag } });
+    expect(again.status).toBe(304);
+    const bad = await fetch(`${base}/api/tiles/current/d18O/0/2/9/0.png`);
+    expect(bad.status).toBe(400);
+    expect(bad.headers.get("content-type")).toContain("application/problem+json");
+  });
 
   it("is linked from the home page", async () => {
     await withBrowser("map-front-door", async (page) => {
