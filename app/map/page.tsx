@@ -40,7 +40,7 @@ export default async function MapPage({ searchParams }: { searchParams: Promise<
     <div>
       <PageHeader title="Map" lead={lead} />
       <MapLoader
-        editions={list.map((e) => ({ id: e.id, isDemo: e.isDemo, publishedAt: e.publishedAt?.toISOString() ?? null, withdrawn: e.status === "withdrawn" }))}
+        editions={list.map((e) => ({ id: e.id, isDemo: e.isDemo, publishedAt: e.publishedAt?.toISOString() ?? null, withdrawn: e.status === "withdrawn", withdrawnReason: e.withdrawnReason }))}
         initial={{ edition: edition.id, variable, kind: layer?.kind ?? "value", period }}
       />
     </div>

@@ -20,6 +20,7 @@ export interface MapEdition {
   isDemo: boolean;
   publishedAt: string | null;
   withdrawn: boolean;
+  withdrawnReason: string | null;
 }
 
 export interface MapSelection {
@@ -307,7 +308,18 @@ export default function MapExplorer({ editions, initial }: { editions: MapEditio
             ))}
           </select>
         </div>
+        {edition?.publishedAt ? (
+          <p className="text-sm text-ink-600">
+            Published {new Date(edition.publishedAt).toLocaleDateString("en-GB", { day: "numeric", month: "long", year: "numeric", timeZone: "UTC" })}
+          </p>
+        ) : null}
         {edition?.isDemo ? <DemoLabel what="every station and surface in this edition" /> : null}
+        {edition?.withdrawn ? (
+          <p role="note" className="w-full rounded border border-severity-warn/50 bg-amber-50 p-2 text-sm text-ink-800" data-testid="withdrawn-note">
+            <strong>This edition was withdrawn.</strong> It stays here so that work citing it can be checked
+            {edition.withdrawnReason ? `; the reason given: ${edition.withdrawnReason}` : ""}. Use the current edition for new work.
+          </p>
+        ) : null}
       </form>
 
       <div className="grid gap-4 lg:grid-cols-[1fr_20rem]">
