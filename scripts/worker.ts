@@ -8,9 +8,11 @@
 import { closeDb, dbReady } from "../db";
 import { jobRegistry } from "../lib/jobs/registry";
 import { startWorker } from "../lib/jobs/runner";
+import { ensureReviewDigestScheduled } from "../lib/jobs/handlers/review-digest";
 
 async function main() {
   await dbReady();
+  await ensureReviewDigestScheduled().catch((e) => console.error("[worker] could not schedule the review digest:", e));
   const registry = jobRegistry();
   const worker = startWorker({ registry, pollMs: Number(process.env.WORKER_POLL_MS || 500) });
   console.log(`[worker] ${worker.workerId} started; kinds: ${Object.keys(registry).join(", ")}`);

@@ -8,6 +8,7 @@ import {
   billingSubscriptionEnded,
   billingSubscriptionStarted,
 } from "./billing";
+import { batchDecided, batchReceived, reviewDigest, stationDecided } from "./intake";
 import { magicLink } from "./magic-link";
 import { passwordReset } from "./password-reset";
 import { roleChanged } from "./role-changed";
@@ -32,6 +33,10 @@ export const templates = {
   "billing-payment-failed": billingPaymentFailed,
   "billing-subscription-ended": billingSubscriptionEnded,
   "seat-invitation": seatInvitation,
+  "batch-received": batchReceived,
+  "batch-decided": batchDecided,
+  "station-decided": stationDecided,
+  "review-digest": reviewDigest,
 } satisfies Record<string, (data: never) => RenderedMail>;
 
 export type TemplateName = keyof typeof templates;
