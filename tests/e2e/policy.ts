@@ -71,6 +71,14 @@ export const api = {
   plans: (plans: readonly Plan[], status = 200): Expectations => each((w) => (!w ? 401 : plans.includes(w.plan) ? status : 403)),
 };
 
+// Demo ids for the intake rows: stations RP-EUR-001…004 and the queued batch "queued-1" belong to the
+// demo contributor (the `perk` column); ids come from db/seed/demo-data.ts demoId().
+const OWN_STATION = "RP-EUR-001";
+const OWN_BATCH = "5553a57a-f273-5018-8506-a537b8397106"; // demoId("batch:queued-1")
+const OWN_PENDING_SAMPLE = "e6d35576-8cf5-5dc1-8716-e278dd12ba8b"; // demoId("sample:RP-EUR-001:2026-07-01"), pending in queued-1
+/** Only the owner (perk) and moderators/admins see it; other contributors get 404 (existence not revealed). */
+const ownerOrModerator = (e: Expectations): Expectations => ({ ...e, contributor: 404, researcher: 404, institution: 404 });
+
 /** Plans that include downloads (station data and edition surfaces), as the catalogue says. */
 const DOWNLOAD_PLANS: readonly Plan[] = ["researcher", "institution"];
 
@@ -191,6 +199,39 @@ export const POLICY: PolicyEntry[] = [
   { file: "app/api/account/api-keys/route.ts", url: "/api/account/api-keys", expect: api.signedIn(200) },
   { file: "app/api/account/api-keys/route.ts", url: "/api/account/api-keys", method: "POST", body: {}, expect: api.plans(["researcher", "institution"], 400), note: "plan checked before the body: Open 403, paid plans 400 for a missing name" },
   { file: "app/api/account/api-keys/[id]/route.ts", url: "/api/account/api-keys/no-such-key", method: "DELETE", expect: api.signedIn(404), note: "any plan may revoke its own keys" },
+
+  // ── intake: stations, batches, review desk ──
+  { file: "app/contribute/page.tsx", url: "/contribute", expect: page.signedIn() },
+  { file: "app/contribute/stations/new/page.tsx", url: "/contribute/stations/new", expect: page.signedIn() },
+  { file: "app/contribute/stations/[code]/page.tsx", url: `/contribute/stations/${OWN_STATION}`, expect: ownerOrModerator(page.signedIn()), note: "owner and moderators; other contributors 404" },
+  { file: "app/contribute/batches/new/page.tsx", url: "/contribute/batches/new", expect: page.signedIn() },
+  { file: "app/contribute/batches/[id]/page.tsx", url: `/contribute/batches/${OWN_BATCH}`, expect: ownerOrModerator(page.signedIn()), note: "owner and moderators; other contributors 404" },
+  { file: "app/review/page.tsx", url: "/review", expect: page.roles(["moderator", "admin"]) },
+  { file: "app/review/batches/[id]/page.tsx", url: `/review/batches/${OWN_BATCH}`, expect: page.roles(["moderator", "admin"]) },
+  { file: "app/stations/[code]/page.tsx", url: `/stations/${OWN_STATION}`, expect: page.open(), note: "public page of an approved station" },
+  { file: "app/api/stations/route.ts", url: "/api/stations", expect: api.signedIn(200), note: "only the viewer's own stations" },
+  { file: "app/api/stations/route.ts", url: "/api/stations?status=pending", expect: { ...api.signedIn(403), moderator: 200, admin: 200 }, note: "every pending station: moderators only" },
+  { file: "app/api/stations/route.ts", url: "/api/stations", method: "POST", body: {}, expect: api.signedIn(400) },
+  { file: "app/api/stations/[code]/route.ts", url: `/api/stations/${OWN_STATION}`, expect: ownerOrModerator(api.signedIn(200)) },
+  { file: "app/api/stations/[code]/decision/route.ts", url: `/api/stations/${OWN_STATION}/decision`, method: "POST", body: {}, expect: api.roles(["moderator", "admin"], 400) },
+  { file: "app/api/stations/[code]/water-line/route.ts", url: `/api/stations/${OWN_STATION}/water-line?method=rma`, expect: api.open() },
+  { file: "app/api/batches/route.ts", url: "/api/batches", expect: api.signedIn(200), note: "only the viewer's own batches" },
+  { file: "app/api/batches/route.ts", url: "/api/batches", method: "POST", body: {}, expect: api.signedIn(400) },
+  { file: "app/api/batches/preview/route.ts", url: "/api/batches/preview", method: "POST", body: {}, expect: api.signedIn(400) },
+  { file: "app/api/batches/preview-csv/route.ts", url: "/api/batches/preview-csv", method: "POST", body: {}, expect: api.signedIn(400), note: "a body that is not a sample file → 400 with the reason" },
+  { file: "app/api/batches/[id]/route.ts", url: `/api/batches/${OWN_BATCH}`, expect: ownerOrModerator(api.signedIn(200)) },
+  {
+    file: "app/api/samples/[id]/resubmit/route.ts",
+    url: `/api/samples/${OWN_PENDING_SAMPLE}/resubmit`,
+    method: "POST",
+    body: { cells: {}, rowVersion: 1 },
+    expect: { ...api.signedIn(404), perk: 409 },
+    note: "owner only (moderators too get 404); the owner's sample is pending, not returned → 409, nothing changes",
+  },
+  { file: "app/api/review/queue/route.ts", url: "/api/review/queue?sort=severity&dir=desc", expect: api.roles(["moderator", "admin"]) },
+  { file: "app/api/review/decisions/route.ts", url: "/api/review/decisions", method: "POST", body: {}, expect: api.roles(["moderator", "admin"], 400) },
+  { file: "app/api/review/batches/[id]/accept-clean/route.ts", url: `/api/review/batches/${OWN_BATCH}/accept-clean`, method: "POST", body: {}, expect: api.roles(["moderator", "admin"], 400) },
+  { file: "app/api/intake/template/route.ts", url: "/api/intake/template", expect: api.open() },
 
   // ── public API v1 (anonymous callers are on Open; the perk column is a paid plan through a session) ──
   { file: "app/api/v1/route.ts", url: "/api/v1", expect: api.open() },
