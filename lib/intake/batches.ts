@@ -104,7 +104,7 @@ function refuseRows(p: Prepared): never {
   });
 }
 
-const INSERT_CHUNK = 400;
+const INSERT_CHUNK = 500; // × 23 columns, well under SQLite's 32,766 parameters
 
 /**
  * Submit a batch: upload (if any), batch row, samples, audit event and the "received" e-mail
@@ -114,7 +114,7 @@ export async function submitBatch(
   actor: Actor,
   input: { rows: CsvRow[]; file?: { name: string; bytes: Uint8Array; contentType?: string } | null; note?: string | null; source?: "form" | "csv" },
   opts: { today?: string; keepFileContent?: boolean; sendMail?: boolean } = {},
-): Promise<{ batchId: string; sampleCount: number; worst: Severity | null; preview: Preview }> {
+): Promise<{ batchId: string; sampleCount: number; worst: Severity | null; stationCodes: string[] }> {
   const p = await prepareRows(actor, input.rows, opts.today);
   if (p.rowsWithErrors) refuseRows(p);
   if (!p.ready.length) throw errors.invalid("The batch has no samples. Nothing was saved.");
@@ -159,38 +159,75 @@ export async function submitBatch(
       );
     return batch.id;
   });
-  return { batchId, sampleCount: p.ready.length, worst, preview: publicPreview(p) };
+  return { batchId, sampleCount: p.ready.length, worst, stationCodes: p.stationCodes };
 }
 
+// Columns written for a new sample, in the order of the VALUES tuples below.
+const SAMPLE_INSERT_COLUMNS = [
+  samples.id, samples.batchId, samples.stationId, samples.version, samples.previousId, samples.status, samples.startDate, samples.endDate,
+  samples.amountMm, samples.d18O, samples.d2H, samples.d18OSd, samples.d2HSd, samples.method, samples.laboratory, samples.scale,
+  samples.referenceWaters, samples.notes, samples.dExcess, samples.lcExcess, samples.checks, samples.worstSeverity, samples.createdAt,
+].map((c) => c.name);
+
+let lastMs = 0;
+let seq = 0;
+/**
+ * A version-7 UUID (RFC 9562): 48-bit millisecond time, a 12-bit counter, 62 random bits.
+ * Ids of one batch then sort in insertion order, so the primary-key index grows at its end
+ * instead of at random places (about a fifth faster for large batches); still unguessable.
+ */
+export function timeOrderedUuid(now = Date.now()): string {
+  if (now <= lastMs) {
+    seq++;
+    if (seq > 0xfff) {
+      lastMs++;
+      seq = 0;
+    }
+  } else {
+    lastMs = now;
+    seq = 0;
+  }
+  const r = crypto.getRandomValues(new Uint8Array(8));
+  const ts = lastMs.toString(16).padStart(12, "0");
+  const hex = (b: Uint8Array) => Array.from(b, (x) => x.toString(16).padStart(2, "0")).join("");
+  r[0] = (r[0] & 0x3f) | 0x80;
+  return `${ts.slice(0, 8)}-${ts.slice(8, 12)}-7${seq.toString(16).padStart(3, "0")}-${hex(r.subarray(0, 2))}-${hex(r.subarray(2, 8))}`;
+}
+
+type RawExecutor = { execute(stmt: { sql: string; args: (string | number | null)[] }): Promise<unknown> };
+
+/**
+ * Samples go in as multi-row INSERT statements (INSERT_CHUNK rows each) on the transaction's
+ * own libSQL handle: building 100,000 rows through the query builder costs more than the
+ * database does. Falls back to the query builder if the handle is not reachable.
+ */
 async function insertSamples(tx: Db, batchId: string, ready: Prepared["ready"], extra: { version?: number; previousId?: string } = {}) {
-  const now = new Date();
+  const now = Date.now();
+  const raw = (tx as unknown as { session?: { tx?: RawExecutor } }).session?.tx;
+  const width = SAMPLE_INSERT_COLUMNS.length;
+  const tuple = `(${new Array(width).fill("?").join(",")})`;
   for (let i = 0; i < ready.length; i += INSERT_CHUNK) {
-    const part = ready.slice(i, i + INSERT_CHUNK).map(({ sample: s, station, checked }) => ({
-      id: crypto.randomUUID(),
-      batchId,
-      stationId: station.id,
-      version: extra.version ?? 1,
-      previousId: extra.previousId ?? null,
-      status: "pending" as const,
-      startDate: s.startDate,
-      endDate: s.endDate,
-      amountMm: s.amountMm,
-      d18O: s.d18O,
-      d2H: s.d2H,
-      d18OSd: s.d18OSd,
-      d2HSd: s.d2HSd,
-      method: s.method,
-      laboratory: s.laboratory,
-      scale: s.scale,
-      referenceWaters: s.referenceWaters,
-      notes: s.notes,
-      dExcess: checked.dExcess,
-      lcExcess: checked.lcExcess,
-      checks: checked.checks,
-      worstSeverity: checked.worst,
-      createdAt: now,
-    }));
-    await tx.insert(samples).values(part);
+    const part = ready.slice(i, i + INSERT_CHUNK);
+    const args: (string | number | null)[] = [];
+    for (const { sample: s, station, checked } of part) {
+      args.push(
+        timeOrderedUuid(), batchId, station.id, extra.version ?? 1, extra.previousId ?? null, "pending", s.startDate, s.endDate,
+        s.amountMm, s.d18O, s.d2H, s.d18OSd, s.d2HSd, s.method, s.laboratory, s.scale,
+        s.referenceWaters, s.notes, checked.dExcess, checked.lcExcess, JSON.stringify(checked.checks), checked.worst, now,
+      );
+    }
+    if (raw) {
+      await raw.execute({ sql: `INSERT INTO samples (${SAMPLE_INSERT_COLUMNS.map((c) => `"${c}"`).join(",")}) VALUES ${new Array(part.length).fill(tuple).join(",")}`, args });
+    } else {
+      await tx.insert(samples).values(
+        part.map(({ sample: s, station, checked }) => ({
+          batchId, stationId: station.id, version: extra.version ?? 1, previousId: extra.previousId ?? null, status: "pending" as const,
+          startDate: s.startDate, endDate: s.endDate, amountMm: s.amountMm, d18O: s.d18O, d2H: s.d2H, d18OSd: s.d18OSd, d2HSd: s.d2HSd,
+          method: s.method, laboratory: s.laboratory, scale: s.scale, referenceWaters: s.referenceWaters, notes: s.notes,
+          dExcess: checked.dExcess, lcExcess: checked.lcExcess, checks: checked.checks, worstSeverity: checked.worst, createdAt: new Date(now),
+        })),
+      );
+    }
   }
 }
 

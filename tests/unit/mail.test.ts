@@ -96,6 +96,10 @@ describe("templates", () => {
       "account-exists": { signInUrl: "https://x.example/sign-in", resetUrl: "https://x.example/reset-password" },
       ...billingSamples,
       "seat-invitation": { organization: "Lakeshore Basin", inviterName: "Greta", url: "https://x.example/invitations/accept?token=abc", expiresDays: 14 },
+      "batch-received": { name: "Ada", batchId: "b1", sampleCount: 3, worstSeverity: "warn", stationCodes: ["HILL-01"] },
+      "batch-decided": { name: "Ada", batchId: "b1", accepted: 2, rejected: 0, returned: 1, samples: [{ stationCode: "HILL-01", startDate: "2026-06-01", endDate: "2026-07-01", decision: "returned", reason: "δ columns swapped" }] },
+      "station-decided": { name: "Ada", code: "HILL-01", stationName: "Hill", decision: "approve", reason: null },
+      "review-digest": { name: "Tomas", day: "2026-11-20", queuedBatches: 7, pendingSamples: 60, failSamples: 12, warnSamples: 9, oldestDays: 3, pendingStations: 1 },
     } as const;
     expect(Object.keys(samples).sort()).toEqual(Object.keys(templates).sort());
     for (const [name, data] of Object.entries(samples)) {
