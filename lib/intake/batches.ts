@@ -34,14 +34,21 @@ export type Preview = {
   stationCodes: string[];
 };
 
-type Prepared = Preview & { ready: { sample: ParsedSample; station: StationForChecks; checked: ReturnType<typeof checkSamples>[number] }[] };
+type Prepared = Preview & { total: number; ready: { sample: ParsedSample; station: StationForChecks; checked: ReturnType<typeof checkSamples>[number] }[] };
 
 export function todayIso(now = new Date()): string {
   return now.toISOString().slice(0, 10);
 }
 
 /** Validate rows and run the checks; writes nothing. */
-export async function prepareRows(actor: Actor, input: CsvRow[], today = todayIso()): Promise<Prepared> {
+export async function prepareRows(
+  actor: Actor,
+  input: CsvRow[],
+  today = todayIso(),
+  timings?: Record<string, number>,
+  opts: { forSubmit?: boolean } = {},
+): Promise<Prepared> {
+  const t0 = performance.now();
   const validated = input.map((r) => {
     const v = validateSampleRow(r.cells, today);
     return { row: r, sample: v.sample, errors: [...r.errors, ...v.errors] };
@@ -68,20 +75,32 @@ export async function prepareRows(actor: Actor, input: CsvRow[], today = todayIs
     }
   }
   const okItems = validated.filter((v) => v.sample && v.errors.length === 0);
+  const t1 = performance.now();
   const stationsById = new Map(found.map((s) => [s.id, s as StationForChecks]));
   const items = okItems.map((v) => ({ sample: v.sample!, stationId: byCode.get(v.sample!.stationCode)!.id, ref: `line ${v.row.line}` }));
   const contexts = await loadStationContexts([...new Set(items.map((i) => i.stationId))]);
-  const checked = checkSamples(items, stationsById, contexts, today);
+  const t2 = performance.now();
+  // Submitting keeps only the stored JSON of each sample's checks (a 100,000-row file would
+  // otherwise hold every result object at once); a preview keeps the objects to show them.
+  const checked = checkSamples(items, stationsById, contexts, today, { keepObjects: !opts.forSubmit });
+  if (timings) {
+    timings.validate = t1 - t0;
+    timings.context = t2 - t1;
+    timings.checks = performance.now() - t2;
+  }
   const checkedByRow = new Map(okItems.map((v, i) => [v, checked[i]]));
   const counts = { fail: 0, warn: 0, note: 0, clean: 0 };
-  const rows: PreviewRow[] = validated.map((v) => {
+  const rows: PreviewRow[] = [];
+  for (const v of validated) {
     const c = checkedByRow.get(v);
     if (c) counts[c.worst ?? "clean"]++;
-    return { line: v.row.line, cells: v.row.cells, errors: v.errors, checks: c?.checks ?? [], worst: c?.worst ?? null, dExcess: c?.dExcess ?? null };
-  });
+    if (opts.forSubmit && !v.errors.length) continue;
+    rows.push({ line: v.row.line, cells: v.row.cells, errors: v.errors, checks: c?.checks ?? [], worst: c?.worst ?? null, dExcess: c?.dExcess ?? null });
+  }
   return {
     rows,
     rowsWithErrors: validated.filter((v) => v.errors.length).length,
+    total: validated.length,
     counts,
     stationCodes: [...new Set(items.map((i) => stationsById.get(i.stationId)!.code))].sort(),
     ready: okItems.map((v, i) => ({ sample: v.sample!, station: stationsById.get(items[i].stationId)!, checked: checked[i] })),
@@ -99,7 +118,7 @@ export function rowsFromForm(rows: Partial<Record<SampleColumnName, string>>[]):
 /** Rows with errors refuse the whole batch: 400 with every row's problems, nothing written. */
 function refuseRows(p: Prepared): never {
   throw new AppError("invalid-input", {
-    detail: `${p.rowsWithErrors} of ${p.rows.length} rows have problems. Fix them and submit again. Nothing was saved.`,
+    detail: `${p.rowsWithErrors} of ${p.total} rows have problems. Fix them and submit again. Nothing was saved.`,
     extensions: { rows: p.rows.filter((r) => r.errors.length).slice(0, 200).map((r) => ({ line: r.line, errors: r.errors })) },
   });
 }
@@ -113,9 +132,11 @@ const INSERT_CHUNK = 500; // × 23 columns, well under SQLite's 32,766 parameter
 export async function submitBatch(
   actor: Actor,
   input: { rows: CsvRow[]; file?: { name: string; bytes: Uint8Array; contentType?: string } | null; note?: string | null; source?: "form" | "csv" },
-  opts: { today?: string; keepFileContent?: boolean; sendMail?: boolean } = {},
+  opts: { today?: string; keepFileContent?: boolean; sendMail?: boolean; timings?: Record<string, number> } = {},
 ): Promise<{ batchId: string; sampleCount: number; worst: Severity | null; stationCodes: string[] }> {
-  const p = await prepareRows(actor, input.rows, opts.today);
+  const t0 = performance.now();
+  const p = await prepareRows(actor, input.rows, opts.today, opts.timings, { forSubmit: true });
+  const t1 = performance.now();
   if (p.rowsWithErrors) refuseRows(p);
   if (!p.ready.length) throw errors.invalid("The batch has no samples. Nothing was saved.");
   const worst = p.ready.reduce<Severity | null>((w, r) => maxSeverity(w, r.checked.worst), null);
@@ -159,6 +180,10 @@ export async function submitBatch(
       );
     return batch.id;
   });
+  if (opts.timings) {
+    opts.timings.prepare = t1 - t0;
+    opts.timings.write = performance.now() - t1;
+  }
   return { batchId, sampleCount: p.ready.length, worst, stationCodes: p.stationCodes };
 }
 
@@ -187,12 +212,20 @@ export function timeOrderedUuid(now = Date.now()): string {
     lastMs = now;
     seq = 0;
   }
-  const r = crypto.getRandomValues(new Uint8Array(8));
+  if (randomAt + 8 > randomPool.length) {
+    crypto.getRandomValues(randomPool);
+    randomAt = 0;
+  }
+  const r = randomPool;
+  const o = randomAt;
+  randomAt += 8;
   const ts = lastMs.toString(16).padStart(12, "0");
-  const hex = (b: Uint8Array) => Array.from(b, (x) => x.toString(16).padStart(2, "0")).join("");
-  r[0] = (r[0] & 0x3f) | 0x80;
-  return `${ts.slice(0, 8)}-${ts.slice(8, 12)}-7${seq.toString(16).padStart(3, "0")}-${hex(r.subarray(0, 2))}-${hex(r.subarray(2, 8))}`;
+  const h = (i: number) => HEX[r[o + i]];
+  return `${ts.slice(0, 8)}-${ts.slice(8, 12)}-7${seq.toString(16).padStart(3, "0")}-${HEX[(r[o] & 0x3f) | 0x80]}${h(1)}-${h(2)}${h(3)}${h(4)}${h(5)}${h(6)}${h(7)}`;
 }
+const HEX = Array.from({ length: 256 }, (_, i) => i.toString(16).padStart(2, "0"));
+const randomPool = new Uint8Array(8 * 4096);
+let randomAt = randomPool.length;
 
 type RawExecutor = { execute(stmt: { sql: string; args: (string | number | null)[] }): Promise<unknown> };
 
@@ -209,11 +242,12 @@ async function insertSamples(tx: Db, batchId: string, ready: Prepared["ready"], 
   for (let i = 0; i < ready.length; i += INSERT_CHUNK) {
     const part = ready.slice(i, i + INSERT_CHUNK);
     const args: (string | number | null)[] = [];
+    if (raw) ready.fill(null as never, i, i + INSERT_CHUNK); // written below; let the collector have them
     for (const { sample: s, station, checked } of part) {
       args.push(
         timeOrderedUuid(), batchId, station.id, extra.version ?? 1, extra.previousId ?? null, "pending", s.startDate, s.endDate,
         s.amountMm, s.d18O, s.d2H, s.d18OSd, s.d2HSd, s.method, s.laboratory, s.scale,
-        s.referenceWaters, s.notes, checked.dExcess, checked.lcExcess, JSON.stringify(checked.checks), checked.worst, now,
+        s.referenceWaters, s.notes, checked.dExcess, checked.lcExcess, checked.checksJson, checked.worst, now,
       );
     }
     if (raw) {
@@ -224,7 +258,7 @@ async function insertSamples(tx: Db, batchId: string, ready: Prepared["ready"], 
           batchId, stationId: station.id, version: extra.version ?? 1, previousId: extra.previousId ?? null, status: "pending" as const,
           startDate: s.startDate, endDate: s.endDate, amountMm: s.amountMm, d18O: s.d18O, d2H: s.d2H, d18OSd: s.d18OSd, d2HSd: s.d2HSd,
           method: s.method, laboratory: s.laboratory, scale: s.scale, referenceWaters: s.referenceWaters, notes: s.notes,
-          dExcess: checked.dExcess, lcExcess: checked.lcExcess, checks: checked.checks, worstSeverity: checked.worst, createdAt: new Date(now),
+          dExcess: checked.dExcess, lcExcess: checked.lcExcess, checks: JSON.parse(checked.checksJson) as unknown[], worstSeverity: checked.worst, createdAt: new Date(now),
         })),
       );
     }
@@ -242,9 +276,11 @@ export function maxSeverity(a: Severity | null, b: Severity | null): Severity | 
 export async function ingestCsv(
   actor: Actor,
   file: { name: string; bytes: Uint8Array },
-  opts: { today?: string; limits?: { maxFileBytes: number; maxRows: number }; keepFileContent?: boolean; sendMail?: boolean } = {},
+  opts: { today?: string; limits?: { maxFileBytes: number; maxRows: number }; keepFileContent?: boolean; sendMail?: boolean; timings?: Record<string, number> } = {},
 ) {
+  const t0 = performance.now();
   const read = readSampleCsv(file.bytes, opts.limits ?? INTAKE_LIMITS);
+  if (opts.timings) opts.timings.read = performance.now() - t0;
   if (!read.ok) throw errors.invalid(read.message);
   return submitBatch(actor, { rows: read.rows, file, source: "csv" }, opts);
 }
@@ -458,13 +494,14 @@ export async function resubmitSample(
       old.s.status === "superseded" ? "This sample has already been corrected; the newer version is in review." : `Only samples returned for correction can be resubmitted; this one is ${old.s.status}.`,
     );
   const cells = { ...input.cells, station_code: old.code };
-  const p = await prepareRows(actor, [{ line: 1, cells, errors: [] }], today);
+  const p = await prepareRows(actor, [{ line: 1, cells, errors: [] }], today, undefined, { forSubmit: true });
   if (p.rowsWithErrors) refuseRows(p);
   const ready = p.ready;
   // The returned version's own period does not count as "already stored" (it is being replaced).
   const contexts = await loadStationContexts([ready[0].station.id], { excludeSampleIds: [old.s.id] });
-  ready[0].checked = checkSamples([{ sample: ready[0].sample, stationId: ready[0].station.id, ref: "corrected sample" }], new Map([[ready[0].station.id, ready[0].station]]), contexts, today)[0];
+  ready[0].checked = checkSamples([{ sample: ready[0].sample, stationId: ready[0].station.id, ref: "corrected sample" }], new Map([[ready[0].station.id, ready[0].station]]), contexts, today, { keepObjects: false })[0];
   const worst = ready[0].checked.worst;
+  const s = ready[0].sample;
   return db.transaction(async (tx) => {
     const superseded = await tx
       .update(samples)
@@ -480,7 +517,6 @@ export async function resubmitSample(
       .get();
     await insertSamples(tx as unknown as Db, batch.id, ready, { version: old.s.version + 1, previousId: old.s.id });
     const fresh = await tx.select({ id: samples.id }).from(samples).where(eq(samples.previousId, old.s.id)).get();
-    const s = ready[0].sample;
     await tx.insert(reviewEvents).values([
       {
         actorId: actor.id,

@@ -51,7 +51,8 @@ export async function loadStationContexts(stationIds: string[], opts: { excludeS
   return out;
 }
 
-export type CheckedSample = { checks: CheckResult[]; worst: Severity | null; dExcess: number; lcExcess: number | null };
+/** Check results of one sample; `checksJson` is what is stored, `checks` the objects (kept for previews only). */
+export type CheckedSample = { checks: CheckResult[] | null; checksJson: string; worst: Severity | null; dExcess: number; lcExcess: number | null };
 
 /**
  * Run lib/qc on parsed samples. The result equals lib/qc's runBatchChecks over the whole
@@ -67,7 +68,9 @@ export function checkSamples(
   stationsById: Map<string, StationForChecks>,
   contexts: Map<string, StationContext>,
   today: string,
+  opts: { keepObjects?: boolean } = {},
 ): CheckedSample[] {
+  const keep = opts.keepObjects ?? true;
   const out: CheckedSample[] = new Array(items.length);
   const qc: QcSample[] = items.map((it) => toQc(it.sample, it.stationId, it.ref));
   const relevant = relevantOthers(qc);
@@ -89,7 +92,8 @@ export function checkSamples(
     }
     const checks = runChecks(qc[i], { ...base, storedPeriods: storedWithinReach(ctx, qc[i]), otherBatchSamples: relevant[i].map((j) => qc[j]) });
     out[i] = {
-      checks,
+      checks: keep ? checks : null,
+      checksJson: JSON.stringify(checks),
       worst: worstSeverity(checks),
       // d = δ2H − 8·δ18O, Dansgaard (1964), Tellus 16:436
       dExcess: round6(dExcess(s.d18O, s.d2H)),

@@ -61,10 +61,10 @@ describe("intake checks with a reduced neighbourhood", () => {
       const full = runBatchChecks(qc, base);
       for (const i of idx) expect(mine[i].checks, items[i].ref).toEqual(full[i]);
     }
-    const codes = mine.flatMap((m) => m.checks.map((c) => c.code));
+    const codes = mine.flatMap((m) => m.checks!.map((c) => c.code));
     expect(codes).toContain("duplicate");
     expect(codes).toContain("period");
-    expect(mine.some((m) => m.checks.some((c) => c.code === "duplicate" && c.message.includes("already stored")))).toBe(true);
+    expect(mine.some((m) => m.checks!.some((c) => c.code === "duplicate" && c.message.includes("already stored")))).toBe(true);
     // The neighbourhood stays small for monthly records.
     const sizes = relevantOthers(qc).map((r) => r.length);
     expect(Math.max(...sizes)).toBeLessThan(40);
