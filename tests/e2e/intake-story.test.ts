@@ -137,7 +137,7 @@ describe("intake story in the browser", () => {
       admin.json("/api/review/decisions", "POST", { decision: "reject", reason: "second opinion", samples: [{ id: s.id, rowVersion: s.rowVersion }] }),
     ]);
     expect([x.status, y.status].sort()).toEqual([200, 409]);
-    const loser = (x.status === 409 ? x : y) as { headers: Headers; body: { detail: string } };
+    const loser = (x.status === 409 ? x : y) as unknown as { headers: Headers; body: { detail: string } };
     expect(loser.headers.get("content-type")).toContain("application/problem+json");
     expect(loser.body.detail).toMatch(/got there first|changed after you opened/);
   });

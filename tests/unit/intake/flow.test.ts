@@ -4,7 +4,7 @@
 import { eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { getDb } from "@/db";
-import { batches, jobs, mailLog, reviewEvents, samples, stations, users } from "@/db/schema";
+import { batches, jobs, mailLog, reviewEvents, samples, users } from "@/db/schema";
 import type { Viewer } from "@/lib/auth/guard";
 import { AppError } from "@/lib/errors";
 import { reviewDigestJob, nextDigestAt } from "@/lib/jobs/handlers/review-digest";
