@@ -33,7 +33,7 @@ const optionalText = (max: number) =>
     .string()
     .trim()
     .max(max, `Keep it under ${max} characters.`)
-    .optional()
+    .nullish()
     .transform((v) => (v ? v : null));
 
 /** A number typed into a form (text) or sent as a number. */
@@ -65,7 +65,7 @@ export const stationInput = z
     startDate: z
       .string()
       .trim()
-      .optional()
+      .nullish()
       .transform((v) => (v ? v : null))
       .refine((v) => v === null || isRealIsoDate(v), "Enter the start date as YYYY-MM-DD."),
     notes: optionalText(2000),

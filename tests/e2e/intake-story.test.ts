@@ -111,7 +111,8 @@ describe("intake story in the browser", () => {
       const form = page.getByRole("form", { name: `Correct ${code} 2026-04-01` });
       await form.getByLabel("δ2H (‰)").fill("-50.9");
       await form.getByRole("button", { name: "Send the corrected sample" }).click();
-      await page.getByText("The corrected sample is in the review queue").waitFor();
+      // The page reloads its data: the returned version is now shown as corrected.
+      await page.getByText("Corrected; the new version is in another batch.").waitFor();
       await page.goto(`/contribute/stations/${code}`);
       const trail = page.getByTestId("audit-trail");
       await trail.waitFor();

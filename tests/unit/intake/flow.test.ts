@@ -136,3 +136,11 @@ describe("stations, batches and the review desk", () => {
     expect(next).toHaveLength(1);
   });
 });
+
+describe("the station schema", () => {
+  it("accepts its own output (the form sends parsed values, the route parses again)", () => {
+    const once = stationInput.parse({ code: "hill-01", name: "Hill", lat: "47.1", lon: "9.2", elevationM: "800", collectorType: "wet-only", samplingInterval: "weekly", operatingOrg: "", startDate: "" });
+    expect(once.operatingOrg).toBeNull();
+    expect(stationInput.parse(once)).toEqual(once);
+  });
+});
