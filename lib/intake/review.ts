@@ -147,8 +147,9 @@ async function settleBatch(tx: Db, viewer: Viewer, batchId: string, now: Date): 
     after: { status: "decided", ...counts },
     at: now,
   });
-  const who = await tx.select({ email: users.email, name: users.name, isDemo: users.isDemo }).from(users).where(eq(users.id, b.contributorId)).get();
-  if (who && !who.isDemo)
+  const who = await tx.select({ email: users.email, name: users.name, isDemo: users.isDemo, passwordHash: users.passwordHash }).from(users).where(eq(users.id, b.contributorId)).get();
+  // Invented demo contributors (no password, cannot sign in) get no mail; the demo sign-in accounts do.
+  if (who && !(who.isDemo && !who.passwordHash))
     await queueMail(
       {
         to: who.email,
