@@ -18,8 +18,8 @@ export type StationContext = {
   history: QcHistorySample[];
   storedPeriods: QcStoredPeriod[];
   line: WaterLineFit | null;
-  /** storedPeriods as day numbers, filled on first use. */
-  storedDays?: (readonly [number, number])[];
+  /** storedPeriods indexed for neighbour search, filled on first use. */
+  storedIndex?: { byStart: Period[]; byEnd: Period[]; maxLen: number; count: number };
 };
 
 export async function loadStationContexts(stationIds: string[], opts: { excludeSampleIds?: string[] } = {}): Promise<Map<string, StationContext>> {
@@ -56,11 +56,11 @@ export type CheckedSample = { checks: CheckResult[] | null; checksJson: string; 
 
 /**
  * Run lib/qc on parsed samples. The result equals lib/qc's runBatchChecks over the whole
- * batch, but each sample is shown only the other samples that can change its findings:
- * same-station samples whose period reaches within a year of its own (duplicates, overlaps
- * and the gap to the previous period — lib/qc reports gaps of at most 366 days) and samples
- * anywhere in the batch with the identical δ pair (repeated values). That keeps a
- * 100,000-row file near-linear instead of quadratic. tests/unit/intake/checks.test.ts
+ * batch, but each sample is shown only the other samples (and stored periods) that can change
+ * its findings: same-station periods that overlap it (duplicates, overlaps), the one that ends
+ * last before it (the gap note reads only that end), and samples anywhere in the batch with
+ * the identical δ pair (repeated values). That keeps a 100,000-row file linear instead of
+ * quadratic. tests/unit/intake/checks.test.ts
  * compares the two on a batch with duplicates, overlaps, gaps and copied values.
  */
 export function checkSamples(
@@ -104,33 +104,74 @@ export function checkSamples(
   return out;
 }
 
-/** Days of reach around a period within which another period can matter (lib/qc's gap note ends at 366 days). */
-const REACH_DAYS = 367;
+type Period = { i: number; start: number; end: number };
+
+/** Index of the first element of `xs` (sorted by key) whose key is ≥ v. */
+function lowerBound<T>(xs: readonly T[], v: number, key: (x: T) => number): number {
+  let lo = 0;
+  let hi = xs.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >> 1;
+    if (key(xs[mid]) < v) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
 
 /**
- * The station's stored periods that can change this sample's period findings (same reach as
- * above). lib/qc only notes a gap when the station has stored periods at all, so one stays in
- * the list when none is within reach; being out of reach it cannot change a finding.
+ * Of a station's periods, the ones lib/qc's period checks can use for a sample [start, end):
+ * every period overlapping it (duplicates, overlaps) and the one that ends last at or before
+ * its start (the gap note reads only that end). `byStart` and `byEnd` are the periods sorted.
+ */
+function periodNeighbours(start: number, end: number, byStart: readonly Period[], byEnd: readonly Period[], maxLen: number, self = -1): number[] {
+  const out: number[] = [];
+  for (let k = lowerBound(byStart, start - maxLen, (p) => p.start); k < byStart.length && byStart[k].start < end; k++) {
+    const p = byStart[k];
+    if (p.i !== self && p.end > start) out.push(p.i);
+  }
+  const last = lowerBound(byEnd, start + 1, (p) => p.end) - 1;
+  if (last >= 0 && byEnd[last].i !== self) out.push(byEnd[last].i);
+  return out;
+}
+
+function sortedPeriods(ps: Period[]) {
+  const byStart = [...ps].sort((x, y) => x.start - y.start);
+  const byEnd = [...ps].sort((x, y) => x.end - y.end);
+  const maxLen = ps.reduce((m, p) => Math.max(m, p.end - p.start), 0);
+  return { byStart, byEnd, maxLen };
+}
+
+/**
+ * The station's stored periods that can change this sample's period findings (see
+ * periodNeighbours). lib/qc only notes a gap when the station has stored periods at all, so one
+ * stays in the list when none is a neighbour; not overlapping and not before, it changes nothing.
  */
 function storedWithinReach(ctx: StationContext, s: QcSample): QcStoredPeriod[] {
   const all = ctx.storedPeriods;
-  if (all.length <= 8) return all as QcStoredPeriod[];
+  if (all.length <= 4) return all as QcStoredPeriod[];
   const start = parseIsoDay(s.startDate ?? "");
   const end = parseIsoDay(s.endDate ?? "");
-  if (start === null || end === null) return all as QcStoredPeriod[];
-  const days = (ctx.storedDays ??= all.map((p) => [parseIsoDay(p.startDate) ?? Number.NaN, parseIsoDay(p.endDate) ?? Number.NaN] as const));
-  const out: QcStoredPeriod[] = [];
-  for (let k = 0; k < all.length; k++) {
-    const [a, b] = days[k];
-    if (Number.isNaN(a) || Number.isNaN(b) || (a <= end + REACH_DAYS && b >= start - REACH_DAYS)) out.push(all[k]);
+  if (start === null || end === null || end <= start) return all as QcStoredPeriod[];
+  if (!ctx.storedIndex) {
+    const valid: Period[] = [];
+    all.forEach((p, i) => {
+      const a = parseIsoDay(p.startDate);
+      const b = parseIsoDay(p.endDate);
+      if (a !== null && b !== null && b > a) valid.push({ i, start: a, end: b });
+    });
+    ctx.storedIndex = { ...sortedPeriods(valid), count: valid.length };
   }
-  return out.length ? out : [all[0]];
+  const ix = ctx.storedIndex;
+  if (ix.count === 0) return [];
+  const picked = periodNeighbours(start, end, ix.byStart, ix.byEnd, ix.maxLen);
+  if (!picked.length) picked.push(ix.byStart[0].i);
+  return [...new Set(picked)].sort((x, y) => x - y).map((i) => all[i]);
 }
 
 /** For each sample, the indices (ascending) of the other samples that can change its findings. */
 export function relevantOthers(list: readonly QcSample[]): number[][] {
   const out: Set<number>[] = list.map(() => new Set());
-  // Identical δ pairs, anywhere in the batch.
+  // Identical δ pairs, anywhere in the batch (repeated values).
   const byPair = new Map<string, number[]>();
   list.forEach((s, i) => {
     const k = `${s.d18O}|${s.d2H}`;
@@ -139,28 +180,24 @@ export function relevantOthers(list: readonly QcSample[]): number[][] {
     else byPair.set(k, [i]);
   });
   for (const g of byPair.values()) if (g.length > 1) for (const i of g) for (const j of g) if (i !== j) out[i].add(j);
-  // Same station, periods within reach (sorted by start; a window over start days).
-  const byStation = new Map<string, { i: number; start: number; end: number }[]>();
+  // Same station: overlapping periods and the latest one ending before (lib/qc skips unreadable periods).
+  const byStation = new Map<string, { valid: Period[]; invalid: number[] }>();
   list.forEach((s, i) => {
     const start = parseIsoDay(s.startDate ?? "");
     const end = parseIsoDay(s.endDate ?? "");
     const key = String(s.stationId ?? "");
-    const g = byStation.get(key) ?? [];
-    // Unparseable dates: keep them visible to every sample of the station (lib/qc skips them itself).
-    g.push({ i, start: start ?? Number.NEGATIVE_INFINITY, end: end ?? Number.POSITIVE_INFINITY });
+    const g = byStation.get(key) ?? { valid: [], invalid: [] };
+    if (start !== null && end !== null && end > start) g.valid.push({ i, start, end });
+    else g.invalid.push(i);
     byStation.set(key, g);
   });
   for (const g of byStation.values()) {
-    g.sort((a, b) => a.start - b.start);
-    const maxLen = g.reduce((m, x) => Math.max(m, x.end - x.start), 0);
-    for (let a = 0; a < g.length; a++) {
-      const me = g[a];
-      const lo = me.start - REACH_DAYS - maxLen;
-      for (let b = a - 1; b >= 0 && !(g[b].start < lo); b--) if (g[b].end >= me.start - REACH_DAYS) out[me.i].add(g[b].i);
-      for (let b = a + 1; b < g.length && g[b].start <= me.end + REACH_DAYS; b++) out[me.i].add(g[b].i);
-    }
+    const ix = sortedPeriods(g.valid);
+    for (const p of g.valid) for (const j of periodNeighbours(p.start, p.end, ix.byStart, ix.byEnd, ix.maxLen, p.i)) out[p.i].add(j);
+    // A sample whose own period is unreadable gets every valid period of its station (lib/qc decides).
+    for (const i of g.invalid) for (const p of g.valid) out[i].add(p.i);
   }
-  return out.map((s) => [...s].sort((x, y) => x - y));
+  return out.map((x) => [...x].sort((a, b) => a - b));
 }
 
 function toQc(s: ParsedSample, stationId: string, ref: string): QcSample {

@@ -70,3 +70,44 @@ describe("intake checks with a reduced neighbourhood", () => {
     expect(Math.max(...sizes)).toBeLessThan(40);
   });
 });
+
+describe("reduced neighbourhood on random batches", () => {
+  // Random periods of 1–400 days (weekly, monthly, long and overlapping), repeated δ pairs,
+  // stored periods on both sides; 20 seeds. Each must equal runBatchChecks exactly.
+  it("equals runBatchChecks for 20 random batches", () => {
+    for (let seed = 1; seed <= 20; seed++) {
+      let state = seed * 7919;
+      const rnd = () => ((state = (Math.imul(state, 1103515245) + 12345) >>> 0) / 4294967296);
+      const day0 = Date.UTC(2020, 0, 1) / 86_400_000;
+      const iso = (d: number) => new Date(d * 86_400_000).toISOString().slice(0, 10);
+      const items: { sample: ParsedSample; stationId: string; ref: string }[] = [];
+      const pairs: [number, number][] = [];
+      for (let k = 0; k < 60; k++) {
+        const st = stations[rnd() < 0.6 ? 0 : 1];
+        const start = day0 + Math.floor(rnd() * 1500);
+        const len = rnd() < 0.1 ? 40 + Math.floor(rnd() * 360) : 1 + Math.floor(rnd() * 35);
+        const pair: [number, number] = pairs.length && rnd() < 0.2 ? pairs[Math.floor(rnd() * pairs.length)] : [Math.round((-12 + rnd() * 8) * 100) / 100, 0];
+        if (pair[1] === 0) pair[1] = Math.round((8 * pair[0] + 10 + rnd() * 4) * 10) / 10;
+        pairs.push(pair);
+        items.push({ sample: sample(st.code, [iso(start), iso(start + len)], pair[0], pair[1]), stationId: st.id, ref: `line ${k + 2}` });
+      }
+      const storedHere: StationContext = {
+        history: [],
+        storedPeriods: Array.from({ length: 12 }, (_, k) => {
+          const start = day0 - 200 + Math.floor(rnd() * 1900);
+          return { startDate: iso(start), endDate: iso(start + 10 + Math.floor(rnd() * 40)), ref: `stored ${k}` };
+        }),
+        line: null,
+      };
+      const ctxs = new Map(stations.map((s) => [s.id, { ...storedHere }]));
+      const mine = checkSamples(items, new Map(stations.map((s) => [s.id, s])), ctxs, TODAY);
+      const qc = items.map((it) => ({ ref: it.ref, stationId: it.stationId, ...it.sample }));
+      for (const st of stations) {
+        const full = runBatchChecks(qc, { today: TODAY, station: st, history: [], storedPeriods: storedHere.storedPeriods, stationLine: null });
+        items.forEach((it, i) => {
+          if (it.stationId === st.id) expect(mine[i].checks, `seed ${seed}, ${it.ref}`).toEqual(full[i]);
+        });
+      }
+    }
+  });
+});
