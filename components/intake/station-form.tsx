@@ -3,6 +3,7 @@
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useMutation } from "@tanstack/react-query";
 import Link from "next/link";
+import { useRouter } from "next/navigation";
 import { useForm } from "react-hook-form";
 import { problemMessage, sendJson } from "@/lib/client-fetch";
 import { COLLECTOR_TYPE_LABELS, SAMPLING_INTERVAL_LABELS, stationInput, type StationFormValues, type StationInput } from "@/lib/intake/schemas";
@@ -15,24 +16,28 @@ import { QueryProvider } from "./query-provider";
 
 type Created = { station: { code: string }; checks: StationCheck[]; message: string };
 
-export function StationForm() {
+/** Registration, or (with `edit`) the owner's correction of a station returned for changes. */
+export function StationForm({ edit }: { edit?: { code: string; rowVersion: number; values: StationFormValues } }) {
   return (
     <QueryProvider>
-      <StationFormInner />
+      <StationFormInner edit={edit} />
     </QueryProvider>
   );
 }
 
 const input = "rounded border border-ink-300 bg-white px-3 py-2 text-base text-ink-900 aria-[invalid=true]:border-severity-fail";
 
-function StationFormInner() {
+function StationFormInner({ edit }: { edit?: { code: string; rowVersion: number; values: StationFormValues } }) {
+  const router = useRouter();
   const form = useForm<StationFormValues, unknown, StationInput>({
     resolver: zodResolver(stationInput),
-    defaultValues: { code: "", name: "", lat: "", lon: "", elevationM: "", collectorType: "bulk-oil", samplingInterval: "monthly", operatingOrg: "", startDate: "", notes: "" } as unknown as StationFormValues,
+    defaultValues: edit?.values ?? { code: "", name: "", lat: "", lon: "", elevationM: "", collectorType: "bulk-oil", samplingInterval: "monthly", operatingOrg: "", startDate: "", notes: "" } as unknown as StationFormValues,
   });
   const save = useMutation({
     mutationFn: async (values: StationInput) => {
-      const r = await sendJson<Created>("/api/stations", values);
+      const r = edit
+        ? await sendJson<Created>(`/api/stations/${encodeURIComponent(edit.code)}`, { ...values, rowVersion: edit.rowVersion }, "PATCH")
+        : await sendJson<Created>("/api/stations", values);
       if (!r.ok) {
         for (const [k, msgs] of Object.entries(r.problem.errors ?? {})) form.setError(k as keyof StationFormValues, { message: msgs.join(" ") });
         throw new Error(problemMessage(r.problem));
@@ -50,6 +55,16 @@ function StationFormInner() {
     </div>
   );
 
+  if (save.data && edit) {
+    return (
+      <div className="flex flex-col gap-3" data-testid="station-corrected">
+        <Alert tone="success" title={save.data.message} />
+        <p>
+          <button type="button" className="underline" onClick={() => router.refresh()}>Show the station</button>
+        </p>
+      </div>
+    );
+  }
   if (save.data) {
     return (
       <div className="flex flex-col gap-3" data-testid="station-registered">
@@ -71,7 +86,7 @@ function StationFormInner() {
   return (
     <form noValidate className="grid max-w-3xl grid-cols-1 gap-4 sm:grid-cols-2" onSubmit={form.handleSubmit((v) => save.mutate(v))}>
       {save.error ? <div className="sm:col-span-2"><Alert tone="error">{save.error.message}</Alert></div> : null}
-      {field("code", "Station code", "3–24 capital letters, digits and hyphens; it appears in your files.")}
+      {field("code", "Station code", edit ? "The code cannot be changed." : "3–24 capital letters, digits and hyphens; it appears in your files.", edit ? { readOnly: true } : {})}
       {field("name", "Station name")}
       {field("lat", "Latitude (°)", "Decimal degrees, north positive, e.g. 47.37.", { inputMode: "decimal" })}
       {field("lon", "Longitude (°)", "Decimal degrees, east positive, e.g. 8.54.", { inputMode: "decimal" })}
@@ -95,7 +110,7 @@ function StationFormInner() {
         <textarea id="st-notes" rows={3} className={input} {...form.register("notes")} />
       </div>
       <div className="sm:col-span-2">
-        <Button type="submit" disabled={save.isPending}>Register station</Button>
+        <Button type="submit" disabled={save.isPending}>{edit ? "Send the corrected station" : "Register station"}</Button>
       </div>
     </form>
   );

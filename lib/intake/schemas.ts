@@ -79,6 +79,8 @@ export const stationInput = z
       });
   });
 export type StationInput = z.output<typeof stationInput>;
+/** A returned station corrected by its owner (same fields, and the row version the form was loaded with). */
+export const stationCorrectionInput = z.intersection(stationInput, z.object({ rowVersion: z.number().int().positive() }));
 export type StationFormValues = z.input<typeof stationInput>;
 
 export const decisionReason = z.string().trim().max(1000, "Keep the reason under 1000 characters.");

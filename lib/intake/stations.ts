@@ -60,6 +60,52 @@ export async function registerStation(viewer: Viewer, input: StationInput): Prom
   });
 }
 
+/**
+ * The owner corrects a station a moderator returned: new entry checks, back to pending
+ * (row version checked), an audit event with the values before and after.
+ */
+export async function correctStation(viewer: Viewer, code: string, input: StationInput & { rowVersion: number }): Promise<{ station: StationRow; checks: StationCheck[] }> {
+  const db = getDb();
+  const before = await db.select().from(stations).where(eq(stations.code, code.toUpperCase())).get();
+  if (!before || before.ownerId !== viewer.id) throw errors.notFound(`You have no station with the code ${code}.`);
+  if (before.status !== "returned") throw errors.conflict(`Station ${before.code} is ${before.status}; only a station returned for changes can be corrected.`);
+  if (input.code !== before.code) throw errors.invalid("The station code cannot be changed.", { code: ["The station code cannot be changed."] });
+  const nearby = (
+    await db
+      .select({ id: stations.id, code: stations.code, name: stations.name, lat: stations.lat, lon: stations.lon, elevationM: stations.elevationM })
+      .from(stations)
+      .where(and(between(stations.lat, input.lat - 0.25, input.lat + 0.25), ne(stations.status, "rejected")))
+      .all()
+  ).filter((n) => n.id !== before.id);
+  const checks = stationEntryChecks(input, nearby);
+  return db.transaction(async (tx) => {
+    const after = await tx
+      .update(stations)
+      .set({
+        name: input.name,
+        lat: input.lat,
+        lon: input.lon,
+        elevationM: input.elevationM,
+        collectorType: input.collectorType,
+        samplingInterval: input.samplingInterval,
+        operatingOrg: input.operatingOrg,
+        startDate: input.startDate,
+        notes: input.notes,
+        entryChecks: checks,
+        status: "pending",
+        rowVersion: sql`${stations.rowVersion} + 1`,
+        updatedAt: new Date(),
+      })
+      .where(and(eq(stations.id, before.id), eq(stations.rowVersion, input.rowVersion), eq(stations.status, "returned")))
+      .returning()
+      .get();
+    if (!after) throw errors.conflict(`Station ${before.code} changed after you opened it. Reload the page and try again.`);
+    const pick = (r: StationRow) => ({ status: r.status, name: r.name, lat: r.lat, lon: r.lon, elevationM: r.elevationM, collectorType: r.collectorType, rowVersion: r.rowVersion });
+    await tx.insert(reviewEvents).values({ actorId: viewer.id, entityType: "station", entityId: before.id, action: "resubmit", before: pick(before), after: pick(after) });
+    return { station: after, checks };
+  });
+}
+
 /** A station by code, if the viewer may see its registry record (owner or moderator); else 404. */
 export async function stationForViewer(viewer: Viewer, code: string): Promise<StationRow> {
   const row = await getDb().select().from(stations).where(eq(stations.code, code.toUpperCase())).get();

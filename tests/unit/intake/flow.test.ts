@@ -12,7 +12,7 @@ import { ingestCsv, resubmitSample } from "@/lib/intake/batches";
 import { decideSamples } from "@/lib/intake/review";
 import { stationInput } from "@/lib/intake/schemas";
 import { stationEntryChecks } from "@/lib/intake/station-checks";
-import { decideStation, registerStation } from "@/lib/intake/stations";
+import { correctStation, decideStation, registerStation } from "@/lib/intake/stations";
 import { freshDb } from "../helpers/db";
 
 const TODAY = "2026-11-20";
@@ -142,5 +142,23 @@ describe("the station schema", () => {
     const once = stationInput.parse({ code: "hill-01", name: "Hill", lat: "47.1", lon: "9.2", elevationM: "800", collectorType: "wet-only", samplingInterval: "weekly", operatingOrg: "", startDate: "" });
     expect(once.operatingOrg).toBeNull();
     expect(stationInput.parse(once)).toEqual(once);
+  });
+});
+
+describe("a station returned for changes", () => {
+  it("is corrected by its owner only, goes back to pending and the trail shows register → return → resubmit", async () => {
+    const input = stationInput.parse({ code: "FIX-01", name: "Typo", lat: "-47.37", lon: "8.54", elevationM: "430", collectorType: "bulk-oil", samplingInterval: "monthly" });
+    const { station, checks } = await registerStation(contributor, input);
+    expect(checks.map((c) => c.code)).toContain("offshore"); // a sign error puts it in the Southern Ocean
+    const returned = await decideStation(mod1, "FIX-01", { decision: "return", reason: "The latitude sign looks wrong.", rowVersion: station.rowVersion });
+    const fixed = stationInput.parse({ ...input, lat: "47.37", lon: "8.54", elevationM: "430" });
+    const notMine = await correctStation(mod2, "FIX-01", { ...fixed, rowVersion: returned.rowVersion }).then(() => null, (e: unknown) => e);
+    expect((notMine as AppError).status).toBe(404);
+    const r = await correctStation(contributor, "FIX-01", { ...fixed, rowVersion: returned.rowVersion });
+    expect(r.station.status).toBe("pending");
+    expect(r.checks.map((c) => c.code)).not.toContain("offshore");
+    await conflict(correctStation(contributor, "FIX-01", { ...fixed, rowVersion: r.station.rowVersion }));
+    const events = await getDb().select().from(reviewEvents).where(eq(reviewEvents.entityId, station.id)).orderBy(reviewEvents.at).all();
+    expect(events.map((e) => e.action)).toEqual(["register", "return", "resubmit"]);
   });
 });

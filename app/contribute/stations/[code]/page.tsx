@@ -3,6 +3,7 @@ import Link from "next/link";
 import { eq } from "drizzle-orm";
 import { AuditTrail } from "@/components/intake/audit-trail";
 import { SeverityBadge } from "@/components/intake/severity";
+import { StationForm } from "@/components/intake/station-form";
 import { DemoLabel } from "@/components/demo-label";
 import { PageHeader } from "@/components/ui/page-header";
 import { getDb } from "@/db";
@@ -10,6 +11,7 @@ import { samples } from "@/db/schema";
 import { requirePageViewer } from "@/lib/auth/guard";
 import { auditFor, stationForViewer } from "@/lib/intake/stations";
 import type { StationCheck } from "@/lib/intake/station-checks";
+import type { StationFormValues } from "@/lib/intake/schemas";
 import { AppError } from "@/lib/errors";
 import { notFound } from "next/navigation";
 
@@ -46,6 +48,29 @@ export default async function MyStationPage({ params }: { params: Promise<{ code
         <h2 className="text-lg font-semibold">Entry checks</h2>
         {checks.length ? <ul className="flex flex-col gap-1 text-sm">{checks.map((c, i) => <li key={i}><SeverityBadge severity={c.severity} /> {c.message}</li>)}</ul> : <p className="text-sm text-ink-600">Nothing found.</p>}
       </section>
+      {station.status === "returned" && station.ownerId === viewer.id ? (
+        <section className="flex flex-col gap-2">
+          <h2 className="text-lg font-semibold">Correct and send again</h2>
+          <StationForm
+            edit={{
+              code: station.code,
+              rowVersion: station.rowVersion,
+              values: {
+                code: station.code,
+                name: station.name,
+                lat: String(station.lat),
+                lon: String(station.lon),
+                elevationM: String(station.elevationM),
+                collectorType: station.collectorType,
+                samplingInterval: station.samplingInterval,
+                operatingOrg: station.operatingOrg ?? "",
+                startDate: station.startDate ?? "",
+                notes: station.notes ?? "",
+              } as unknown as StationFormValues,
+            }}
+          />
+        </section>
+      ) : null}
       {station.status === "approved" ? <p><Link className="underline" href="/contribute/batches/new">Submit samples for this station</Link> · <Link className="underline" href={`/stations/${station.code}`}>Public page</Link></p> : null}
       <section className="flex flex-col gap-2">
         <h2 className="text-lg font-semibold">History of this station and its data</h2>
