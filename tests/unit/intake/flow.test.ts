@@ -9,7 +9,8 @@ import type { Viewer } from "@/lib/auth/guard";
 import { AppError } from "@/lib/errors";
 import { reviewDigestJob, nextDigestAt } from "@/lib/jobs/handlers/review-digest";
 import { ingestCsv, resubmitSample } from "@/lib/intake/batches";
-import { decideSamples } from "@/lib/intake/review";
+import { decideSamples, reviewQueue } from "@/lib/intake/review";
+import { publicStationData } from "@/lib/intake/public-station";
 import { stationInput } from "@/lib/intake/schemas";
 import { stationEntryChecks } from "@/lib/intake/station-checks";
 import { correctStation, decideStation, registerStation } from "@/lib/intake/stations";
@@ -160,5 +161,32 @@ describe("a station returned for changes", () => {
     await conflict(correctStation(contributor, "FIX-01", { ...fixed, rowVersion: r.station.rowVersion }));
     const events = await getDb().select().from(reviewEvents).where(eq(reviewEvents.entityId, station.id)).orderBy(reviewEvents.at).all();
     expect(events.map((e) => e.action)).toEqual(["register", "return", "resubmit"]);
+  });
+});
+
+describe("the review queue and the public station page", () => {
+  it("filters by station and severity, sorts and pages", async () => {
+    const csv = (code: string, rows: string[]) => Buffer.from(["station_code,collected_from,collected_until,d18O_permil,d2H_permil,amount_mm", ...rows.map((r) => `${code},${r}`)].join("\n"));
+    await ingestCsv(contributor, { name: "a.csv", bytes: csv("FLOW-01", ["2026-09-01,2026-10-01,-7.1,-46.5,40"]) }, { today: TODAY });
+    await ingestCsv(contributor, { name: "b.csv", bytes: csv("FLOW-01", ["2026-10-01,2026-11-01,-55,-7,40"]) }, { today: TODAY });
+    const all = await reviewQueue({ sort: "severity", dir: "desc" });
+    expect(all.total).toBeGreaterThanOrEqual(3);
+    expect(all.rows[0].worstSeverity).toBe("fail");
+    const fails = await reviewQueue({ severity: "fail" });
+    expect(fails.rows.every((r) => r.worstSeverity === "fail")).toBe(true);
+    expect((await reviewQueue({ station: "nope" })).total).toBe(0);
+    expect((await reviewQueue({ contributor: "station op" })).total).toBe(all.total);
+    const page2 = await reviewQueue({ pageSize: 5, page: 2 });
+    expect(page2.rows.length).toBe(Math.max(0, Math.min(5, all.total - 5)));
+  });
+
+  it("shows accepted data only: means with coverage and a water line by the chosen method", async () => {
+    const d = await publicStationData("FLOW-01", "rma");
+    expect(d.sampleCount).toBe(2); // the two accepted samples of the flow above
+    expect(d.points.map((p) => p.d18O).sort((a, b) => a - b)).toEqual([-6.1, -5.2]);
+    expect(d.line).toBeNull(); // fewer than 3 samples
+    expect(d.lineNote).toContain("at least 3");
+    expect(d.means?.annual.included).toBe(false);
+    await expect(publicStationData("FIX-01", "ols")).rejects.toThrow(/no public station/);
   });
 });
