@@ -151,15 +151,23 @@ function clip(s: string): string {
 }
 
 export function isRealIsoDate(s: string): boolean {
-  if (!/^\d{4}-\d{2}-\d{2}$/.test(s)) return false;
-  const d = new Date(`${s}T00:00:00Z`);
-  return !Number.isNaN(d.getTime()) && d.toISOString().slice(0, 10) === s;
+  if (s.length !== 10 || !/^\d{4}-\d{2}-\d{2}$/.test(s)) return false;
+  const y = Number(s.slice(0, 4));
+  const m = Number(s.slice(5, 7));
+  const d = Number(s.slice(8, 10));
+  if (m < 1 || m > 12 || d < 1) return false;
+  const leap = (y % 4 === 0 && y % 100 !== 0) || y % 400 === 0;
+  return d <= [31, leap ? 29 : 28, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31][m - 1];
 }
 
-function addDays(iso: string, days: number): string {
-  const d = new Date(`${iso}T00:00:00Z`);
-  d.setUTCDate(d.getUTCDate() + days);
-  return d.toISOString().slice(0, 10);
+let tomorrowOf: { today: string; tomorrow: string } = { today: "", tomorrow: "" };
+function addOneDay(iso: string): string {
+  if (tomorrowOf.today !== iso) {
+    const d = new Date(`${iso}T00:00:00Z`);
+    d.setUTCDate(d.getUTCDate() + 1);
+    tomorrowOf = { today: iso, tomorrow: d.toISOString().slice(0, 10) };
+  }
+  return tomorrowOf.tomorrow;
 }
 
 /**
@@ -213,7 +221,7 @@ export function validateSampleRow(cells: Record<string, string | undefined>, tod
     if (endDate < startDate) errors.push({ column: "collected_until", message: `Collected until (${endDate}) is before collected from (${startDate}); check the order of the dates.` });
     else if (endDate === startDate) errors.push({ column: "collected_until", message: `Collected until is the same day as collected from (${startDate}); the period runs up to, not including, the until day.` });
   }
-  const tomorrow = addDays(today, 1);
+  const tomorrow = addOneDay(today);
   if (startDate && startDate > today) errors.push({ column: "collected_from", message: `Collected from (${startDate}) is in the future (today is ${today}).` });
   else if (endDate && endDate > tomorrow) errors.push({ column: "collected_until", message: `Collected until (${endDate}) is in the future (today is ${today}).` });
   const sample: ParsedSample = {
