@@ -8,6 +8,7 @@ import { useFieldArray, useForm } from "react-hook-form";
 import { problemMessage, sendJson, type ClientProblem } from "@/lib/client-fetch";
 import { INTAKE_LIMITS, SAMPLE_COLUMNS, columnLabel, type SampleColumnName, type SampleRowInput } from "@/lib/intake/columns";
 import type { CheckResult } from "@/lib/qc";
+import { problemsCsv } from "@/lib/intake/report";
 import { Alert } from "../ui/alert";
 import { Button } from "../ui/button";
 import { QueryProvider } from "./query-provider";
@@ -213,6 +214,24 @@ function BatchEntryInner({ stationCodes }: { stationCodes: string[] }) {
             {preview.rows.length} rows: {preview.rowsWithErrors} with problems to fix; of the others {preview.counts.fail} fail a check, {preview.counts.warn} have warnings,{" "}
             {preview.counts.note} have notes, {preview.counts.clean} are clean.
           </p>
+          {preview.rowsWithErrors ? (
+            <p>
+              <button
+                type="button"
+                className="text-sm underline"
+                onClick={() => {
+                  const blob = new Blob([problemsCsv(preview.rows.filter((r) => r.errors.length))], { type: "text/csv;charset=utf-8" });
+                  const a = document.createElement("a");
+                  a.href = URL.createObjectURL(blob);
+                  a.download = `${file?.name.replace(/\.[^.]+$/, "") ?? "samples"}-problems.csv`;
+                  a.click();
+                  URL.revokeObjectURL(a.href);
+                }}
+              >
+                Download the problems as a CSV list
+              </button>
+            </p>
+          ) : null}
           <PreviewTable rows={preview.rows} />
           <div className="flex flex-col gap-2">
             <label htmlFor="batch-note" className="text-sm font-medium">Note for the reviewer (optional)</label>
