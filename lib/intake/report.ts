@@ -3,7 +3,7 @@
 // as formulas — including a formula the person typed into their own file — get a leading '.
 // Pure and client-safe.
 import { csvRow } from "@/lib/downloads/csv";
-import { columnLabel, type SampleColumnName } from "./columns";
+import type { SampleColumnName } from "./columns";
 
 export type ProblemRow = { line: number; cells: Partial<Record<SampleColumnName, string>>; errors: { column: string; message: string }[] };
 
@@ -11,6 +11,6 @@ export function problemsCsv(rows: readonly ProblemRow[]): string {
   let out = csvRow(["file_line", "column", "value_as_entered", "problem"]);
   for (const r of rows)
     for (const e of r.errors)
-      out += csvRow([r.line, e.column === "row" ? "(whole line)" : e.column, e.column === "row" ? "" : (r.cells[e.column as SampleColumnName] ?? ""), e.column === "row" ? e.message : `${columnLabel(e.column)}: ${e.message}`]);
+      out += csvRow([r.line, e.column === "row" ? "(whole line)" : e.column, e.column === "row" ? "" : (r.cells[e.column as SampleColumnName] ?? ""), e.message]);
   return out;
 }

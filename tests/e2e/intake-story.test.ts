@@ -4,6 +4,7 @@
 // and returns one with a reason; the operator finds the e-mail in the mail stand-in, corrects
 // the sample and resubmits; the audit trail shows every step. Then two moderators decide the
 // corrected sample at once over HTTP: one wins, the other gets 409.
+import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import type { Page } from "playwright-core";
 import { demoAccount } from "./helpers/accounts";
@@ -66,6 +67,11 @@ describe("intake story in the browser", () => {
       expect(errors).toContain("uses a decimal comma; write -10.4");
       expect(errors).toContain("Collected until (2026-03-01) is before collected from (2026-04-01)");
       expect(await page.getByRole("button", { name: "Submit batch" }).isDisabled()).toBe(true);
+      // The problems as a CSV list to work through in a spreadsheet.
+      const [download] = await Promise.all([page.waitForEvent("download"), page.getByRole("button", { name: "Download the problems as a CSV list" }).click()]);
+      const list = readFileSync((await download.path())!, "utf8");
+      expect(list.split("\r\n")[0]).toBe("file_line,column,value_as_entered,problem");
+      expect(list).toContain("3,d18O_permil,\"'-10,4\",\"“-10,4” uses a decimal comma; write -10.4 with a decimal point.\"");
       // Fix the two rows in the grid and check again.
       await page.getByLabel("δ18O (‰), row 2").fill("-10.4");
       await page.getByLabel("Collected from, row 3").fill("2026-03-01");

@@ -10,8 +10,8 @@ describe("problemsCsv", () => {
     ]);
     const lines = csv.trim().split("\r\n");
     expect(lines[0]).toBe("file_line,column,value_as_entered,problem");
-    expect(lines[1]).toBe(`2,d18O_permil,"'=HYPERLINK(""http://example.invalid"",""x"")",δ18O (‰): looks like a spreadsheet formula`);
-    expect(lines[2]).toBe(`7,d2H_permil,"'-54,8",δ2H (‰): uses a decimal comma`);
+    expect(lines[1]).toBe(`2,d18O_permil,"'=HYPERLINK(""http://example.invalid"",""x"")",looks like a spreadsheet formula`);
+    expect(lines[2]).toBe(`7,d2H_permil,"'-54,8",uses a decimal comma`);
     expect(lines[3]).toBe("7,(whole line),,This line repeats line 3 exactly");
   });
 });
