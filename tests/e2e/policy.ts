@@ -92,6 +92,9 @@ export const POLICY: PolicyEntry[] = [
   { file: "app/pricing/cancelled/page.tsx", url: "/pricing/cancelled", expect: page.open() },
   { file: "app/downloads/page.tsx", url: "/downloads", expect: page.open(), note: "public; the download buttons appear only for plans that include them" },
   { file: "app/invitations/accept/page.tsx", url: "/invitations/accept?token=not-a-real-invitation-token", expect: page.open(), note: "shows that the link is not valid" },
+  { file: "app/lookup/page.tsx", url: "/lookup", expect: page.open(), note: "the form; a lookup counts against the Open plan's daily cap" },
+  { file: "app/lookup/report/page.tsx", url: "/lookup/report?lat=91&lon=7", expect: page.open(), note: "bad coordinates show the form with the message and count nothing" },
+  { file: "app/lookup/batch/page.tsx", url: "/lookup/batch", expect: page.open(), note: "states each plan's batch limit; the upload form only for plans that include batch lookups" },
   { file: "app/dev/mailbox/page.tsx", url: "/dev/mailbox", expect: page.open(), note: "present while the mail stand-in is configured (always in tests)" },
 
   // ── signed-in pages ──
@@ -195,6 +198,23 @@ export const POLICY: PolicyEntry[] = [
   // ── public API v1 (anonymous callers are on Open; the perk column is a paid plan through a session) ──
   { file: "app/api/v1/route.ts", url: "/api/v1", expect: api.open() },
   { file: "app/api/v1/openapi.json/route.ts", url: "/api/v1/openapi.json", expect: api.open() },
+  { file: "app/api/v1/predict/route.ts", url: "/api/v1/predict?lat=91&lon=7", expect: api.open(400), note: "public; latitude 91 is refused before the edition is read (counts nothing)" },
+  {
+    file: "app/api/v1/predict/route.ts",
+    url: "/api/v1/predict",
+    method: "POST",
+    body: { sites: [] },
+    expect: api.plans(["researcher", "institution"], 400),
+    note: "batch lookups: plan checked before the body; an empty batch is a 400",
+  },
+  {
+    file: "app/api/lookup/batch/route.ts",
+    url: "/api/lookup/batch",
+    method: "POST",
+    body: {},
+    expect: api.plans(["researcher", "institution"], 400),
+    note: "the batch page's upload: plans with batch lookups; a body without a file is a 400",
+  },
   { file: "app/api/v1/stations/route.ts", url: "/api/v1/stations?limit=5", expect: api.open() },
   { file: "app/api/v1/stations/[code]/route.ts", url: "/api/v1/stations/RP-EUR-001", expect: api.open() },
   {
