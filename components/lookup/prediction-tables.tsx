@@ -7,7 +7,7 @@ import { MONTHS, num } from "@/lib/lookup/format";
 function Cell({ e, digits = 2 }: { e: { value: number; lower95: number; upper95: number } | null; digits?: number }) {
   if (!e) return <td className="px-2 py-1 text-right text-ink-500">—</td>;
   return (
-    <td className="px-2 py-1 text-right tabular-nums">
+    <td className="px-2 py-1 text-right tabular-nums" data-value={e.value}>
       <span className="font-medium text-ink-900">{num(e.value, digits)}</span>
       <span className="block text-xs text-ink-600">
         {num(e.lower95, digits)} to {num(e.upper95, digits)}
