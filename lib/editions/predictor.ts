@@ -17,8 +17,9 @@ import type { SurfaceStats, SurfaceTrend, SurfaceVariable } from "./types";
 //     Hengl, Heuvelink & Rossiter (2007), Computers & Geosciences 33:1301–1315 [mem], with the
 //     trend and the residual field treated as independent (the trend is fitted by OLS first).
 //   δ2H = d-excess + 8·δ18O — Dansgaard (1964), Tellus 16:436 [pub]; variance
-//     Var(d) + 64·Var(δ18O): the two surfaces are kriged separately and their errors treated as
-//     independent (an assumption; the edition's d2H surface states it in stats.note).
+//     Var(d) + 64·Var(δ18O) + 16·ρ·σd·σ18O — propagation with correlated inputs, JCGM 100:2008
+//     §5.2.2 [mem] — with the ρ each period's d2H surface states in stats.note ("ρ = 0.1234", as the
+//     edition build writes it); no ρ stated → 0, the two kriging errors treated as independent.
 //   precipitation: ordinary kriging of √P, P = max(z, 0)² — square-root transform [trade].
 //   95% interval: value ± 1.959964·sd (Gaussian) [trade]; precipitation: the z interval squared.
 // Predictors are cached per edition (a small LRU), since restoring ~40 models takes a few ms.
@@ -59,8 +60,10 @@ export interface EditionInfo {
   isDemo: boolean;
   withdrawnAt: Date | null;
   withdrawnReason: string | null;
-  /** What the edition says about how δ2H's variance was combined (d2H surface's stats.note), if anything. */
+  /** What the edition says about how δ2H's variance was combined (annual d2H surface's stats.note), if anything. */
   d2HNote: string | null;
+  /** Correlation ρ of the δ18O and d-excess errors used for δ2H's variance, per period 0–12 (0 = independent). */
+  d2HCorrelation: number[];
   /** True when the edition stores monthly precipitation models (the line is then precipitation-weighted). */
   hasPrecipitation: boolean;
 }
@@ -195,10 +198,11 @@ class Predictor implements LoadedEditionPredictor {
           annualP += pm.value;
           annualPVar += pm.sd * pm.sd;
         }
+        const rho = this.edition.d2HCorrelation[p];
         periods[p] = {
           d18O: estimate(o.value, o.variance),
-          // δ2H = d + 8·δ18O — Dansgaard (1964); Var = Var(d) + 64·Var(δ18O), errors assumed independent
-          d2H: estimate(d.value + 8 * o.value, d.variance + 64 * o.variance),
+          // δ2H = d + 8·δ18O — Dansgaard (1964); Var = Var(d) + 64·Var(δ18O) + 16·ρ·σd·σ18O — JCGM 100:2008 §5.2.2 [mem]
+          d2H: estimate(d.value + 8 * o.value, Math.max(0, d.variance + 64 * o.variance + 16 * rho * Math.sqrt(d.variance * o.variance))),
           dExcess: estimate(d.value, d.variance),
           precipMm: pm,
         };
@@ -254,6 +258,14 @@ function waterLineOf(monthly: (PeriodPrediction & { month: number })[], weighted
   }
 }
 
+/** The ρ a d2H surface's note states ("… with ρ = 0.1234, …"); 0 when none is stated (independent errors). */
+export function statedCorrelation(note: string): number {
+  const m = /ρ\s*=\s*([+-−]?\d+(?:\.\d+)?)/.exec(note);
+  if (!m) return 0;
+  const rho = Number(m[1].replace("−", "-"));
+  return Number.isFinite(rho) && rho >= -1 && rho <= 1 ? rho : 0;
+}
+
 function unknownEdition(id: string | undefined): AppError {
   return new AppError("unknown-edition", {
     detail: id
@@ -272,9 +284,13 @@ async function build(e: EditionRow): Promise<Predictor> {
   const byPoints = new Map<string, SurfaceGroup>();
   const codes = new Set<string>();
   let d2HNote: string | null = null;
+  const d2HCorrelation = new Array<number>(13).fill(0);
   for (const r of rows) {
     const stats = r.stats as SurfaceStats | null;
-    if (r.variable === "d2H" && r.period === 0 && stats?.note) d2HNote = stats.note;
+    if (r.variable === "d2H" && stats?.note) {
+      if (r.period === 0) d2HNote = stats.note;
+      d2HCorrelation[r.period] = statedCorrelation(stats.note);
+    }
     const rec = r.model as SurfaceModelRecord | null;
     if (!rec) continue; // derived surfaces (δ2H, annual precipitation)
     const where = `edition ${e.id}, ${r.variable} period ${r.period}`;
@@ -305,7 +321,7 @@ async function build(e: EditionRow): Promise<Predictor> {
   }
   const hasPrecipitation = rows.some((r) => r.variable === "precipMm" && r.period > 0 && r.model);
   return new Predictor(
-    { id: e.id, publishedAt: e.publishedAt, isDemo: e.isDemo, withdrawnAt: e.withdrawnAt, withdrawnReason: e.withdrawnReason, d2HNote, hasPrecipitation },
+    { id: e.id, publishedAt: e.publishedAt, isDemo: e.isDemo, withdrawnAt: e.withdrawnAt, withdrawnReason: e.withdrawnReason, d2HNote, d2HCorrelation, hasPrecipitation },
     groups,
     names,
   );

@@ -23,6 +23,8 @@ export interface TestEditionOptions {
   extrapolationKm?: number;
   /** Leave the precipitation models out. */
   noPrecipitation?: boolean;
+  /** State this correlation of the δ18O and d-excess errors in the d2H surfaces' notes (as the edition build does). */
+  d2HRho?: number;
 }
 
 export interface TestSurfaceRow {
@@ -133,7 +135,8 @@ export function buildTestEdition(opts: TestEditionOptions): TestSurfaceRow[] {
         model: { kind: "regression-kriging", stationCodes: codes, kriging: krigingModelToJSON(model), extrapolationKm: ex },
       });
     }
-    rows.push({ variable: "d2H", period, grid, stats: stats("derived-d2H", "‰", st.length, ex, TEST_D2H_NOTE), trend: null, variogram: null, crossValidation: null, model: null });
+    const note = opts.d2HRho === undefined ? TEST_D2H_NOTE : `δ2H = d-excess + 8·δ18O. Variance = Var(d) + 64·Var(δ18O) + 16·ρ·σd·σ18O with ρ = ${opts.d2HRho.toFixed(4)}, the correlation of the leave-one-out residuals.`;
+    rows.push({ variable: "d2H", period, grid, stats: stats("derived-d2H", "‰", st.length, ex, note), trend: null, variogram: null, crossValidation: null, model: null });
     if (opts.noPrecipitation) continue;
     if (period === 0) {
       rows.push({ variable: "precipMm", period, grid, stats: stats("derived-annual-sum", "mm", st.length, ex), trend: null, variogram: null, crossValidation: null, model: null });

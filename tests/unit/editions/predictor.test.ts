@@ -1,6 +1,6 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { AppError } from "@/lib/errors";
-import { forgetEditionPredictors, loadEditionPredictor, Z95 } from "@/lib/editions/predictor";
+import { forgetEditionPredictors, loadEditionPredictor, statedCorrelation, Z95 } from "@/lib/editions/predictor";
 import { createKrigingModel } from "@/lib/geostats";
 import { fitWaterLine } from "@/lib/isotopes";
 import { freshDb } from "../helpers/db";
@@ -20,6 +20,7 @@ beforeAll(async () => {
   // the same stations without a nugget (exact interpolation), and local neighbourhoods
   await insertTestEdition({ id: "2026.02.1", stations: ALPS, variogram: { ...VG, nugget: 0 }, maxNeighbors: 12, publishedAt: new Date("2026-02-10T00:00:00Z") });
   await insertTestEdition({ id: "2026.03.1", stations: ALPS, status: "ready" });
+  await insertTestEdition({ id: "2025.12.1", stations: ALPS, variogram: VG, d2HRho: -0.35, publishedAt: new Date("2025-12-10T00:00:00Z") });
   forgetEditionPredictors();
 });
 
@@ -65,13 +66,28 @@ describe("loadEditionPredictor", () => {
     expect(p.predict(SITE).annual.d18O.value).toBeLessThan(r.annual.d18O.value);
   });
 
-  it("derives δ2H = d-excess + 8·δ18O (Dansgaard 1964) with Var(d) + 64·Var(δ18O)", async () => {
+  it("derives δ2H = d-excess + 8·δ18O (Dansgaard 1964) with Var(d) + 64·Var(δ18O) when the edition states no correlation", async () => {
     const r = (await loadEditionPredictor("2026.01.1")).predict(SITE);
     for (const m of [r.annual, ...r.monthly]) {
       expect(m.d2H.value).toBeCloseTo(m.dExcess.value + 8 * m.d18O.value, 9);
       expect(m.d2H.sd ** 2).toBeCloseTo(m.dExcess.sd ** 2 + 64 * m.d18O.sd ** 2, 9);
       expect(m.dExcess.value).toBeCloseTo(m.d2H.value - 8 * m.d18O.value, 9);
     }
+  });
+
+  it("uses the correlation the edition states for δ2H: Var(d) + 64·Var(δ18O) + 16·ρ·σd·σ18O (JCGM 100:2008 §5.2.2 [mem])", async () => {
+    const p = await loadEditionPredictor("2025.12.1");
+    expect(p.edition.d2HCorrelation).toEqual(new Array(13).fill(-0.35));
+    const r = p.predict(SITE);
+    for (const m of [r.annual, ...r.monthly]) {
+      expect(m.d2H.sd ** 2).toBeCloseTo(m.dExcess.sd ** 2 + 64 * m.d18O.sd ** 2 + 16 * -0.35 * m.dExcess.sd * m.d18O.sd, 9);
+    }
+    // the same models without a stated ρ give the independent combination
+    const indep = (await loadEditionPredictor("2026.01.1")).predict(SITE);
+    expect(indep.annual.d18O.value).toBeCloseTo(r.annual.d18O.value, 12);
+    expect(indep.annual.d2H.sd).toBeGreaterThan(r.annual.d2H.sd);
+    expect(statedCorrelation("… with ρ = 0.1234, the correlation …")).toBe(0.1234);
+    expect(statedCorrelation("errors taken as independent")).toBe(0);
   });
 
   it("at a station with no nugget returns that station's mean", async () => {
