@@ -29,8 +29,9 @@ const BATCH_SITES = 10_000;
 const RUNS = Number(process.env.BENCH_RUNS ?? 3);
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 64);
 
-type Target = { name: string; path: string; withKey: boolean };
-const PREDICT_NAME = "GET /api/v1/predict (key; one site, 38 surfaces)";
+/** `paths`: cycle through these instead of repeating `path` (every predict request asks for another site). */
+type Target = { name: string; path: string; withKey: boolean; paths?: string[] };
+const PREDICT_NAME = "GET /api/v1/predict (key; a different site each request)";
 const TARGETS: Target[] = [
   { name: "health (trivial route)", path: "/api/health", withKey: false },
   { name: "GET /api/v1 (key; caller + headers, free)", path: "/api/v1", withKey: true },
@@ -42,8 +43,19 @@ type Result = { rps: number; p50: number; p99: number; non2xx: number; errors: n
 
 const median = (xs: number[]) => xs.slice().sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 
-async function load(url: string, headers: Record<string, string>, seconds: number): Promise<Result> {
-  const r = await autocannon({ url, connections: CONNECTIONS, duration: seconds, headers });
+async function load(url: string, headers: Record<string, string>, seconds: number, paths?: string[]): Promise<Result> {
+  let next = 0;
+  const requests = paths
+    ? [
+        {
+          setupRequest: (req: { path?: string }) => {
+            req.path = paths[next++ % paths.length];
+            return req;
+          },
+        },
+      ]
+    : undefined;
+  const r = await autocannon({ url, connections: CONNECTIONS, duration: seconds, headers, ...(requests ? { requests } : {}) });
   return { rps: r.requests.average, p50: r.latency.p50, p99: r.latency.p99, non2xx: r.non2xx, errors: r.errors + r.timeouts };
 }
 
@@ -58,7 +70,11 @@ async function main() {
 
   const db = createClient({ url: databaseUrl });
   const edition = await ensureLookupEdition(db);
-  TARGETS.push({ name: PREDICT_NAME, path: `/api/v1/predict?lat=46.5042&lon=7.2083&elevation=800&edition=${edition}`, withKey: true });
+  // 2,000 different sites (reproducible), so no answer is ever the same request twice in a row
+  let s0 = 7;
+  const r0 = () => ((s0 = (Math.imul(s0, 1664525) + 1013904223) >>> 0) / 4294967296); // LCG, Numerical Recipes [trade]
+  const sitePaths = Array.from({ length: 2000 }, () => `/api/v1/predict?lat=${(-45 + 110 * r0()).toFixed(4)}&lon=${(-180 + 360 * r0()).toFixed(4)}&elevation=${Math.round(2000 * r0())}&edition=${edition}`);
+  TARGETS.push({ name: PREDICT_NAME, path: sitePaths[0], withKey: true, paths: sitePaths });
   if (process.env.BENCH_ONLY === "predict") TARGETS.splice(1, TARGETS.length - 2);
 
   // One Institution organisation and key per keyed run (and per batch), so no run meets a daily quota.
@@ -89,7 +105,7 @@ async function main() {
     console.log(`\nbench:api — ${CONNECTIONS} connections, ${SECONDS} s per run, median of ${RUNS} runs (os.cpus: ${os.cpus().length})\n`);
     let k = 0;
     // Warm up every route once (first-request compilation of server chunks, lazy caches).
-    for (const t of TARGETS) await load(`${base}${t.path}`, t.withKey ? { authorization: `Bearer ${keys[k]}` } : {}, 2);
+    for (const t of TARGETS) await load(`${base}${t.path}`, t.withKey ? { authorization: `Bearer ${keys[k]}` } : {}, 2, t.paths);
     k++;
     const rows: { name: string; r: Result }[] = [];
     for (const t of TARGETS) {
@@ -98,7 +114,7 @@ async function main() {
         // Anonymous runs: each run from its own documentation address (RFC 5737), so the Open quota is
         // what answers beyond 50 requests — those answers are 429s and show up as non-2xx.
         const headers: Record<string, string> = t.withKey ? { authorization: `Bearer ${keys[k++]}` } : { "x-forwarded-for": `198.51.100.${i + 1}` };
-        runs.push(await load(`${base}${t.path}`, headers, SECONDS));
+        runs.push(await load(`${base}${t.path}`, headers, SECONDS, t.paths));
       }
       rows.push({ name: t.name, r: { rps: median(runs.map((x) => x.rps)), p50: median(runs.map((x) => x.p50)), p99: median(runs.map((x) => x.p99)), non2xx: median(runs.map((x) => x.non2xx)), errors: median(runs.map((x) => x.errors)) } });
     }

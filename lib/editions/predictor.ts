@@ -3,7 +3,8 @@ import { eq, inArray } from "drizzle-orm";
 import { getDb } from "@/db";
 import { stations as stationsTable, surfaces } from "@/db/schema";
 import { AppError } from "@/lib/errors";
-import { type KrigingModel, type StationSet, predictSurfaces, restoreKrigingModel } from "@/lib/geostats";
+import { type KrigingModel, type StationSet, SurfaceBatch, restoreKrigingModel } from "@/lib/geostats";
+import { permuteRows, spatialOrder } from "@/lib/geostats/order";
 import { fitWaterLine, type WaterLineMethod } from "@/lib/isotopes";
 import type { EditionPredictor, Estimate, InformingStation, PeriodPrediction, SiteInput, SitePrediction, SurfaceModelRecord } from "./prediction";
 import { getCurrentEdition, getEdition, type EditionRow } from "./queries";
@@ -126,6 +127,14 @@ class Predictor implements LoadedEditionPredictor {
   private readonly where = new Map<string, { g: number; i: number }>();
   private readonly anchor: KrigedSurface;
   private readonly names: Map<string, string>;
+  /**
+   * One SurfaceBatch per station set, kept for the predictor's life: its evaluators, WebAssembly
+   * workspaces and factorisation caches are reused by every request (calls are synchronous, so
+   * never interleaved). Caches only save work; answers are the same as with a fresh batch.
+   */
+  private readonly batches: SurfaceBatch[];
+  private readonly noDrift: null[][];
+  private single: { value: Float64Array; variance: Float64Array }[][] | null = null;
 
   constructor(edition: EditionInfo, groups: SurfaceGroup[], names: Map<string, string>) {
     this.editionId = edition.id;
@@ -138,6 +147,34 @@ class Predictor implements LoadedEditionPredictor {
     }
     const a = this.where.get("d18O:0")!;
     this.anchor = groups[a.g].surfaces[a.i];
+    this.batches = groups.map((g) => new SurfaceBatch(g.surfaces.map((s) => s.model)));
+    this.noDrift = groups.map((g) => g.surfaces.map(() => null));
+  }
+
+  /** Every surface's kriged value and variance at the sites, per group: sites in kd order (neighbouring sites reuse factorised systems), answers in the caller's order. */
+  private krige(xy: Float64Array, n: number): { value: Float64Array; variance: Float64Array }[][] {
+    if (n === 1) {
+      // a single site (the common request): reuse the one-element outputs, read before the next call
+      this.single ??= this.groups.map((g) => g.surfaces.map(() => ({ value: new Float64Array(1), variance: new Float64Array(1) })));
+      this.batches.forEach((b, gi) => b.run({ kind: "points", xy }, 0, 1, this.noDrift[gi], this.single![gi]));
+      return this.single;
+    }
+    const order = spatialOrder(xy);
+    const src = order ? permuteRows(xy, order, 2) : xy;
+    return this.batches.map((b, gi) => {
+      const outs = this.groups[gi].surfaces.map(() => ({ value: new Float64Array(n), variance: new Float64Array(n) }));
+      b.run({ kind: "points", xy: src }, 0, n, this.noDrift[gi], outs);
+      if (!order) return outs;
+      return outs.map((o) => {
+        const value = new Float64Array(n);
+        const variance = new Float64Array(n);
+        for (let j = 0; j < n; j++) {
+          value[order[j]] = o.value[j];
+          variance[order[j]] = o.variance[j];
+        }
+        return { value, variance };
+      });
+    });
   }
 
   predict(site: SiteInput): SitePrediction {
@@ -153,7 +190,7 @@ class Predictor implements LoadedEditionPredictor {
       xy[2 * i + 1] = sites[i].lat;
     }
     // one neighbour search per site and station set, shared by all of the set's surfaces
-    const planes = this.groups.map((g) => predictSurfaces(g.surfaces.map((s) => s.model), xy, { variance: true }));
+    const planes = this.krige(xy, n);
     const at = (variable: SurfaceVariable, period: number) => {
       const w = this.where.get(`${variable}:${period}`);
       return w ? { s: this.groups[w.g].surfaces[w.i], out: planes[w.g][w.i] } : null;
@@ -212,7 +249,11 @@ class Predictor implements LoadedEditionPredictor {
         const sd = Math.sqrt(annualPVar);
         periods[0].precipMm = { value: annualP, sd, lower95: Math.max(0, annualP - Z95 * sd), upper95: annualP + Z95 * sd };
       }
-      const monthly = periods.slice(1).map((m, i) => ({ month: i + 1, ...m }));
+      const monthly: SitePrediction["monthly"] = new Array(12);
+      for (let m = 1; m <= 12; m++) {
+        const q = periods[m];
+        monthly[m - 1] = { month: m, d18O: q.d18O, d2H: q.d2H, dExcess: q.dExcess, precipMm: q.precipMm };
+      }
       // informing stations: the annual δ18O residual model's neighbours and OK weights
       const k = this.anchor.model.predict(site.lon, site.lat);
       const listed: InformingStation[] = [];

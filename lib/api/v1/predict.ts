@@ -157,20 +157,30 @@ export const sitePredictionSchema = z
   })
   .meta({ id: "SitePrediction" });
 
-const batchResponse = z
+/** Stations listed per site in a batch answer (the single-site answer lists up to 12). */
+export const BATCH_STATIONS = 5;
+
+export const batchSitePredictionSchema = sitePredictionSchema
+  .omit({ citation: true, synthetic: true, notice: true })
+  .meta({ id: "BatchSitePrediction", description: `A site of a batch: as SitePrediction, with the ${BATCH_STATIONS} nearest informing stations; the citation and notice are given once for the batch.` });
+
+export const batchResponse = z
   .object({
     edition: z.string(),
+    citation: z.string().describe("How to cite the batch (each site is cited by its coordinates and this edition)."),
     count: z.number().int(),
-    results: z.array(sitePredictionSchema),
     synthetic: z.boolean(),
     notice: z.string().optional(),
+    results: z.array(batchSitePredictionSchema),
   })
   .meta({ id: "SitePredictionBatch" });
 
-const r3 = (x: number) => Math.round(x * 1000) / 1000;
+/** x rounded to `d` decimals, as a number (toFixed's decimal rounding; the JSON writer below uses the same). */
+const fx = (x: number, d: number) => Number(x.toFixed(d));
+const r3 = (x: number) => fx(x, 3);
 const est = (e: Estimate) => ({ value: r3(e.value), sd: r3(e.sd), lower95: r3(e.lower95), upper95: r3(e.upper95) });
 const period = (p: SitePrediction["annual"]) => ({ d18O: est(p.d18O), d2H: est(p.d2H), dExcess: est(p.dExcess), precipMm: p.precipMm ? est(p.precipMm) : null });
-const orNull = (x: number, digits: number) => (Number.isFinite(x) ? Math.round(x * 10 ** digits) / 10 ** digits : null);
+const orNull = (x: number, digits: number) => (Number.isFinite(x) ? fx(x, digits) : null);
 
 /** A prediction as the API answers it (‰ to 0.001, km to 0.1, weights to 0.0001). */
 export function apiPrediction(p: SitePrediction, predictor: LoadedEditionPredictor, id?: string): z.output<typeof sitePredictionSchema> {
@@ -185,7 +195,7 @@ export function apiPrediction(p: SitePrediction, predictor: LoadedEditionPredict
       elevationM: p.site.elevationM,
       seaLevelEquivalent: p.site.elevationM === null,
       extrapolation: p.site.extrapolation,
-      nearestStationKm: Math.round(p.site.nearestStationKm * 10) / 10,
+      nearestStationKm: fx(p.site.nearestStationKm, 1),
       extrapolationKm: p.site.extrapolationKm,
     },
     annual: period(p.annual),
@@ -198,7 +208,7 @@ export function apiPrediction(p: SitePrediction, predictor: LoadedEditionPredict
       r2: orNull(p.waterLine.r2, 4),
       method: p.waterLine.method,
     },
-    stations: p.stations.map((s) => ({ code: s.code, name: s.name, distanceKm: Math.round(s.distanceKm * 10) / 10, weight: Math.round(s.weight * 1e4) / 1e4 })),
+    stations: p.stations.map((s) => ({ code: s.code, name: s.name, distanceKm: fx(s.distanceKm, 1), weight: fx(s.weight, 4) })),
     synthetic: e.isDemo,
     ...(e.isDemo ? { notice: SYNTHETIC_NOTICE } : {}),
   };
@@ -277,7 +287,143 @@ export const predictBatch = defineEndpoint({
   async handler({ body }) {
     const predictor = await loadEditionPredictor(body.edition);
     const preds = predictor.predictMany(body.sites.map((s) => ({ lat: s.lat, lon: s.lon, elevationM: s.elevation ?? null })));
-    const results = preds.map((p, i) => apiPrediction(p, predictor, String(body.sites[i].id ?? i + 1)));
-    return { edition: predictor.editionId, count: results.length, results, synthetic: predictor.edition.isDemo, ...(predictor.edition.isDemo ? { notice: SYNTHETIC_NOTICE } : {}) };
+    const ids = body.sites.map((s, i) => String(s.id ?? i + 1));
+    return batchJsonResponse(predictor, preds, ids);
   },
 });
+
+// ---- the batch answer, written as JSON text in chunks ----
+// A 10,000-site answer is ~25 MB of JSON; building it as objects and stringifying them costs about as
+// much again as the predictions. It is written directly (same text JSON.stringify would give for the
+// batch shape, tested) and streamed in chunks, yielding between them so other requests get a turn.
+
+const CHUNK = 500;
+
+const NEG_ZERO = ["-0", "-0.0", "-0.00", "-0.000", "-0.0000"];
+
+/** x to `d` decimals as JSON text (toFixed; −0 written as 0; non-finite → null). */
+function n(x: number, d: number): string {
+  if (!Number.isFinite(x)) return "null";
+  const t = x.toFixed(d);
+  return t === NEG_ZERO[d] ? "0" : t;
+}
+
+/** A number as JSON.stringify writes it (non-finite → null). */
+const raw = (x: number) => (Number.isFinite(x) ? String(x) : "null");
+
+function estJson(out: string[], e: Estimate): void {
+  out.push('{"value":', n(e.value, 3), ',"sd":', n(e.sd, 3), ',"lower95":', n(e.lower95, 3), ',"upper95":', n(e.upper95, 3), "}");
+}
+
+function periodJson(out: string[], p: SitePrediction["annual"]): void {
+  out.push('"d18O":');
+  estJson(out, p.d18O);
+  out.push(',"d2H":');
+  estJson(out, p.d2H);
+  out.push(',"dExcess":');
+  estJson(out, p.dExcess);
+  out.push(',"precipMm":');
+  if (p.precipMm) estJson(out, p.precipMm);
+  else out.push("null");
+}
+
+/** One result of a batch as JSON text pieces appended to `out` (the text JSON.stringify gives for the batchSitePredictionSchema object, up to trailing zeros). */
+export function writeBatchItem(out: string[], p: SitePrediction, id: string, names: Map<string, string> = new Map()): void {
+  const s = p.site;
+  out.push(
+    '{"edition":',
+    JSON.stringify(p.edition),
+    ',"site":{"id":',
+    JSON.stringify(id),
+    ',"lat":',
+    raw(s.lat),
+    ',"lon":',
+    raw(s.lon),
+    ',"elevationM":',
+    s.elevationM === null ? "null" : raw(s.elevationM),
+    ',"seaLevelEquivalent":',
+    s.elevationM === null ? "true" : "false",
+    ',"extrapolation":',
+    s.extrapolation ? "true" : "false",
+    ',"nearestStationKm":',
+    n(s.nearestStationKm, 1),
+    ',"extrapolationKm":',
+    raw(s.extrapolationKm),
+    '},"annual":{',
+  );
+  periodJson(out, p.annual);
+  out.push('},"monthly":[');
+  for (let i = 0; i < p.monthly.length; i++) {
+    out.push(i ? ',{"month":' : '{"month":', String(p.monthly[i].month), ",");
+    periodJson(out, p.monthly[i]);
+    out.push("}");
+  }
+  const w = p.waterLine;
+  out.push(
+    '],"waterLine":{"slope":',
+    n(w.slope, 4),
+    ',"intercept":',
+    n(w.intercept, 3),
+    ',"slopeSE":',
+    n(w.slopeSE, 4),
+    ',"interceptSE":',
+    n(w.interceptSE, 3),
+    ',"r2":',
+    n(w.r2, 4),
+    ',"method":',
+    JSON.stringify(w.method),
+    '},"stations":[',
+  );
+  for (let i = 0; i < p.stations.length && i < BATCH_STATIONS; i++) {
+    const st = p.stations[i];
+    let head = names.get(st.code);
+    if (head === undefined) names.set(st.code, (head = `{"code":${JSON.stringify(st.code)},"name":${JSON.stringify(st.name)}`));
+    out.push(i ? "," : "", head, ',"distanceKm":', n(st.distanceKm, 1), ',"weight":', n(st.weight, 4), "}");
+  }
+  out.push("]}");
+}
+
+/** One result of a batch as JSON text. */
+export function batchItemJson(p: SitePrediction, id: string, names?: Map<string, string>): string {
+  const out: string[] = [];
+  writeBatchItem(out, p, id, names);
+  return out.join("");
+}
+
+function batchJsonResponse(predictor: LoadedEditionPredictor, preds: SitePrediction[], ids: string[]): Response {
+  const e = predictor.edition;
+  const head = {
+    edition: predictor.editionId,
+    citation: `Rainprint (${e.publishedAt ? e.publishedAt.getUTCFullYear() : "n.d."}). Predicted precipitation δ18O, δ2H and d-excess at the sites listed; edition ${predictor.editionId}${
+      e.publishedAt ? ` (published ${e.publishedAt.toISOString().slice(0, 10)})` : ""
+    }, regression-kriging with 95% intervals. Licence CC BY 4.0.${e.isDemo ? " Synthetic demo data." : ""}`,
+    count: preds.length,
+    synthetic: e.isDemo,
+    ...(e.isDemo ? { notice: SYNTHETIC_NOTICE } : {}),
+  };
+  const enc = new TextEncoder();
+  const names = new Map<string, string>();
+  let i = 0;
+  const stream = new ReadableStream<Uint8Array>({
+    start(controller) {
+      controller.enqueue(enc.encode(`${JSON.stringify(head).slice(0, -1)},"results":[`));
+    },
+    async pull(controller) {
+      const end = Math.min(preds.length, i + CHUNK);
+      const out: string[] = [];
+      for (; i < end; i++) {
+        if (i) out.push(",");
+        writeBatchItem(out, preds[i], ids[i], names);
+      }
+      const text = out.join("");
+      if (i >= preds.length) {
+        controller.enqueue(enc.encode(`${text}]}`));
+        controller.close();
+        return;
+      }
+      controller.enqueue(enc.encode(text));
+      await new Promise((r) => setTimeout(r, 0));
+    },
+  });
+  return new Response(stream, { headers: { "Content-Type": "application/json; charset=utf-8" } });
+}

@@ -5,6 +5,7 @@ import { v1Handler } from "@/lib/api/endpoint";
 import { createApiKey, revokeApiKey } from "@/lib/api/keys";
 import { flushUsage, resetUsageMemory } from "@/lib/api/usage";
 import { predictBatch, predictSite } from "@/lib/api/v1";
+import { apiPrediction, BATCH_STATIONS, batchItemJson, batchResponse } from "@/lib/api/v1/predict";
 import { PLAN_CATALOGUE } from "@/lib/billing/plans";
 import { forgetEditionPredictors, loadEditionPredictor } from "@/lib/editions/predictor";
 import { resetEnvCache } from "@/lib/env";
@@ -146,6 +147,19 @@ describe("POST /api/v1/predict", () => {
     const single = await call(GET, "/api/v1/predict?lat=46.5&lon=7.2&elevation=1200", { key: secret });
     expect(results[0].annual).toEqual(single.body.annual);
     expect(await stored(`org:${org.id}`)).toBe(3 + 1);
+    // the hand-written JSON is the documented shape, and equals the single-site object less what the batch gives once
+    const parsed = batchResponse.parse(c.body);
+    expect(parsed.citation).toContain("edition 2026.05.1");
+    const predictor = await loadEditionPredictor("2026.05.1");
+    const direct = predictor.predictMany([{ lat: 46.5, lon: 7.2, elevationM: 1200 }, { lat: 47 + 22 / 60, lon: 8 + 33 / 60, elevationM: null }, { lat: 41, lon: 2, elevationM: null }]);
+    direct.forEach((p, i) => {
+      const { citation, synthetic, notice, ...rest } = apiPrediction(p, predictor, ["a", "b", "3"][i]);
+      void citation;
+      void synthetic;
+      void notice;
+      expect(results[i]).toEqual({ ...rest, stations: rest.stations.slice(0, BATCH_STATIONS) });
+      expect(JSON.parse(batchItemJson(p, ["a", "b", "3"][i]))).toEqual(JSON.parse(JSON.stringify({ ...rest, stations: rest.stations.slice(0, BATCH_STATIONS) })));
+    });
   });
 
   it("CSV: the same answers; a malformed file is refused whole with every problem by line, counting nothing", async () => {
