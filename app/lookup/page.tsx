@@ -28,7 +28,7 @@ export default async function LookupPage({ searchParams }: { searchParams: Promi
         <p className="mt-2 text-sm text-ink-700 no-print">
           {allowance ? (
             <span data-testid="lookups-left">
-              {allowance.left} of {allowance.cap} site lookups left today on your plan.{" "}
+              {`${allowance.left} of ${allowance.cap} site lookups left today on your plan.`}{" "}
               <Link href="/pricing" className="underline">
                 Paid plans
               </Link>{" "}
