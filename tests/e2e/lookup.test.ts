@@ -197,8 +197,9 @@ describe("site lookups in the browser", () => {
       expect(lines[0]).toContain("d18O_permil_lower95_annual");
       expect(lines[1]).toContain("synthetic demo data");
       // a file with a bad row is refused whole, each problem named by line
-      writeFileSync(file, "id,latitude,longitude\na,91,7\nb,46,abc\n");
-      await page.getByTestId("batch-file").setInputFiles(file);
+      const bad = file.replace(/\.csv$/, "-bad.csv");
+      writeFileSync(bad, "id,latitude,longitude\na,91,7\nb,46,abc\n");
+      await page.getByTestId("batch-file").setInputFiles(bad);
       await page.getByTestId("batch-run").click();
       await page.getByTestId("batch-problem").waitFor({ state: "visible" });
       const problem = await page.getByTestId("batch-problem").textContent();
