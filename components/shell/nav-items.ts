@@ -32,6 +32,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   // { href: "/api-docs", label: "API", audience: "everyone", group: "main" },
   // { href: "/pricing", label: "Pricing", audience: "everyone", group: "main" },
   { href: "/map", label: "Map", audience: "everyone", group: "main" },
+  { href: "/editions", label: "Editions", audience: "everyone", group: "main" },
   { href: "/downloads", label: "Downloads", audience: "everyone", group: "main" },
   { href: "/pricing", label: "Pricing", audience: "everyone", group: "main" },
   { href: "/jobs", label: "Jobs", audience: { roles: ["moderator", "admin"] }, group: "main" },

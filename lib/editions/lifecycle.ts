@@ -131,3 +131,15 @@ export async function buildJobOf(jobId: string | null) {
 }
 
 
+
+export interface EditionBuildStatus {
+  id: string;
+  status: string;
+  job: Awaited<ReturnType<typeof buildJobOf>>;
+}
+
+/** Status of an edition and its build job; 404 for an unknown id. */
+export async function editionBuildStatus(id: string): Promise<EditionBuildStatus> {
+  const e = await editionOr404(id);
+  return { id: e.id, status: e.status, job: await buildJobOf(e.jobId) };
+}
