@@ -11,7 +11,7 @@
 //   precipitation: ordinary kriging of √P, P = max(ẑ, 0)², Var(P) = 4ẑ²σ² + 2σ⁴ (the variance of the
 //     square of a Gaussian variable [trade]); the annual surface is the sum of the twelve months.
 
-import { crossValidate, createKrigingModel, createStationSet, empiricalVariogram, fitVariogram, krigingModelToJSON, VARIOGRAM_MODELS } from "@/lib/geostats";
+import { crossValidate, createKrigingModel, createStationSet, empiricalVariogram, fitVariogram, greatCircleKm, krigingModelToJSON, VARIOGRAM_MODELS } from "@/lib/geostats";
 import type { CrossValidation, KrigingModel, StationSet, VariogramModelType } from "@/lib/geostats";
 import { krigeGrid } from "@/lib/geostats/grid-runner";
 import { landMask, type LonLatGrid } from "@/lib/geo";
@@ -274,7 +274,10 @@ export async function buildPeriodSurfaces(
   const iso = sorted.filter((m) => m.included && m.d18O !== null && m.dExcess !== null);
   const withSamples = sorted.filter((m) => m.d18O !== null || m.dExcess !== null || m.included);
   const excludedIso = withSamples.length - iso.length;
-  const precip = period === 0 ? [] : sorted.filter((m) => m.precipMm !== null);
+  // Precipitation from the same stations as the isotope surfaces (those with a mean amount): the
+  // three surfaces then share one neighbour search, and a site's predicted amounts (which weight its
+  // predicted water line) come from the stations its δ values come from.
+  const precip = period === 0 ? [] : iso.filter((m) => m.precipMm !== null);
   if (iso.length < 8) throw new Error(`Period ${period}: only ${iso.length} stations pass the coverage rules; at least 8 are needed to fit a trend and a variogram.`);
 
   const sets = new Map<string, StationSet>();
@@ -326,7 +329,7 @@ export async function buildPeriodSurfaces(
         variogram: chosen.record,
         model: chosen.model,
         cv: chosen.cv,
-        excluded: sorted.length - precip.length,
+        excluded: iso.length - precip.length,
       });
     }
   });
@@ -486,25 +489,64 @@ function residualCorrelation(a: CrossValidation, b: CrossValidation): number {
   return Math.max(-1, Math.min(1, r));
 }
 
-/** 1 where the cell is active and its nearest station is farther than `km`. */
+/**
+ * 1 where the cell is active and its nearest station is farther than `km` (ellipsoidal distance, as
+ * the kriging uses). Each station marks the cells within `km` of it: per grid row the longitude
+ * half-width of the circle on the sphere (cos Δλ = (cos δ − sin φ1 sin φ2) / (cos φ1 cos φ2),
+ * spherical law of cosines [trade]), widened by 1% for the ellipsoid, then each candidate cell is
+ * checked with the exact distance.
+ */
 export function extrapolationPlane(ctx: GridContext, set: StationSet, km: number): Uint8Array {
-  const out = new Uint8Array(ctx.cells);
-  const searcher = set.searcher();
-  const idx = new Int32Array(1);
-  const dist = new Float64Array(1);
-  const { nx, ny, lon0, dLon } = ctx.grid;
-  for (let row = 0; row < ny; row++) {
-    const lat = ctx.rowLat[row];
-    for (let col = 0; col < nx; col++) {
-      const c = row * nx + col;
-      if (!ctx.mask[c]) continue;
-      let lon = lon0 + col * dLon;
-      if (lon > 180) lon -= 360;
-      else if (lon <= -180) lon += 360;
-      searcher.nearest(lon, lat, 1, idx, dist, 0, idx, 0);
-      if (dist[0] > km) out[c] = 1;
+  const { nx, ny, lon0, dLon, dLat } = ctx.grid;
+  const near = new Uint8Array(ctx.cells);
+  const R = 6371.0088;
+  const delta = Math.min(Math.PI, (km * 1.01) / R);
+  const cosD = Math.cos(delta);
+  const rad = Math.PI / 180;
+  const global = Math.abs(nx * dLon - 360) < 1e-9;
+  for (let s = 0; s < set.count; s++) {
+    const slon = set.xy[2 * s];
+    const slat = set.xy[2 * s + 1];
+    const latSpan = (delta / rad) + dLat;
+    const r0 = Math.max(0, Math.floor((ctx.grid.lat0 - (slat + latSpan)) / dLat));
+    const r1 = Math.min(ny - 1, Math.ceil((ctx.grid.lat0 - (slat - latSpan)) / dLat));
+    const s1 = Math.sin(slat * rad);
+    const c1 = Math.cos(slat * rad);
+    for (let row = r0; row <= r1; row++) {
+      const lat = ctx.rowLat[row];
+      const c2 = Math.cos(lat * rad);
+      const den = c1 * c2;
+      let half: number; // degrees of longitude
+      if (den < 1e-12) half = 180;
+      else {
+        const cl = (cosD - s1 * Math.sin(lat * rad)) / den;
+        if (cl > 1) continue;
+        half = cl < -1 ? 180 : Math.acos(cl) / rad;
+      }
+      half += dLon;
+      let c0: number;
+      let cN: number;
+      if (half >= 180) {
+        c0 = 0;
+        cN = nx - 1;
+      } else {
+        c0 = Math.floor((slon - half - lon0) / dLon);
+        cN = Math.ceil((slon + half - lon0) / dLon);
+      }
+      for (let cc = c0; cc <= cN; cc++) {
+        let col = cc;
+        if (col < 0 || col >= nx) {
+          if (!global) continue;
+          col = ((col % nx) + nx) % nx;
+        }
+        const c = row * nx + col;
+        if (near[c] || !ctx.mask[c]) continue;
+        if (greatCircleKm(slon, slat, lon0 + col * dLon, lat) <= km) near[c] = 1;
+      }
     }
   }
+  const out = new Uint8Array(ctx.cells);
+  for (let c = 0; c < ctx.cells; c++) out[c] = ctx.mask[c] && !near[c] ? 1 : 0;
   return out;
 }
 
