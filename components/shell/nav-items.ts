@@ -37,6 +37,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { href: "/pricing", label: "Pricing", audience: "everyone", group: "main" },
   { href: "/jobs", label: "Jobs", audience: { roles: ["moderator", "admin"] }, group: "main" },
   { href: "/admin/users", label: "Users", audience: { roles: ["admin"] }, group: "main" },
+  { href: "/admin/elevation", label: "Elevation", audience: { roles: ["admin"] }, group: "main" },
   { href: "/api", label: "API", audience: "everyone", group: "main" },
   { href: "/account", label: "Account", audience: "signed-in", group: "account" },
   { href: "/account/api-keys", label: "API keys", audience: { plans: ["researcher", "institution"] }, group: "account" },

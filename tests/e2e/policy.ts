@@ -116,6 +116,7 @@ export const POLICY: PolicyEntry[] = [
   { file: "app/account/api-keys/page.tsx", url: "/account/api-keys", expect: page.signedIn(), note: "Open accounts see why they cannot make keys" },
   { file: "app/account/usage/page.tsx", url: "/account/usage", expect: page.signedIn() },
   { file: "app/admin/users/page.tsx", url: "/admin/users", expect: page.roles(["admin"]) },
+  { file: "app/admin/elevation/page.tsx", url: "/admin/elevation", expect: page.roles(["admin"]) },
 
   // ── route handlers ──
   { file: "app/api/health/route.ts", url: "/api/health", expect: api.open() },
@@ -141,6 +142,8 @@ export const POLICY: PolicyEntry[] = [
   { file: "app/api/account/profile/route.ts", url: "/api/account/profile", method: "PATCH", body: {}, expect: api.signedIn(400) },
   { file: "app/api/me/route.ts", url: "/api/me", expect: api.signedIn(200) },
   { file: "app/api/admin/users/route.ts", url: "/api/admin/users", expect: api.roles(["admin"]) },
+  { file: "app/api/admin/elevation/route.ts", url: "/api/admin/elevation?name=x", method: "POST", expect: api.roles(["admin"], 400), note: "an empty body is not a GeoTIFF: 400, nothing stored" },
+  { file: "app/api/admin/elevation/[id]/route.ts", url: "/api/admin/elevation/no-such-model", method: "PATCH", body: { active: true }, expect: api.roles(["admin"], 404) },
   { file: "app/api/admin/users/[id]/route.ts", url: "/api/admin/users/no-such-user", method: "PATCH", body: {}, expect: api.roles(["admin"], 400) },
   {
     file: "app/api/stripe/webhook/route.ts",

@@ -117,6 +117,8 @@ export default async function EditionPage({ params, searchParams }: Props) {
               <dd>
                 {params_.variogramModels.join(", ")}; weights gstat fit.method {params_.fitMethod}; chosen by leave-one-out RMSE
               </dd>
+              <dt className="text-ink-600">Elevation model</dt>
+              <dd>{params_.elevationModelId ? `uploaded model ${params_.elevationModelId}` : "none (sea-level-equivalent)"}</dd>
               <dt className="text-ink-600">δ2H variance</dt>
               <dd>{params_.d2HCovariance === "independent" ? "errors of δ18O and d-excess taken as independent" : "with the correlation of the δ18O and d-excess leave-one-out residuals"}</dd>
               {Object.entries({ ...defaultStationMeanRules(), ...params_.stationMeanRules }).map(([k, v]) => (

@@ -46,6 +46,7 @@ const parametersSchema = z
     variogramModels: z.array(z.string()),
     stationMeanRules: z.record(z.string(), z.number()).describe("Overrides of the coverage rules; {} = the defaults."),
     d2HCovariance: z.string(),
+    elevationModelId: z.string().nullable().optional().describe("The elevation model the grid trend used; null = sea-level-equivalent surfaces."),
   })
   .meta({ id: "EditionParameters", description: "Every parameter of the build." });
 

@@ -53,6 +53,8 @@ export interface BuildParameters {
   stationMeanRules: Record<string, number>;
   /** How the δ2H variance treats the covariance of the δ18O and d-excess errors. */
   d2HCovariance: "loo-residual-correlation" | "independent";
+  /** Elevation model (elevation_models.id) giving each cell its elevation; null = sea-level-equivalent surfaces. */
+  elevationModelId: string | null;
 }
 
 export const GLOBAL_EXTENT = { west: -180, south: -90, east: 180, north: 90 } as const;
@@ -65,6 +67,7 @@ export function defaultBuildParameters(over: Partial<Omit<BuildParameters, "grid
     variogramModels: [...VARIOGRAM_MODELS],
     stationMeanRules: {},
     d2HCovariance: "loo-residual-correlation",
+    elevationModelId: null,
     ...over,
     grid: { resolutionDeg: 0.25, extent: { ...GLOBAL_EXTENT }, landOnly: true, ...(over.grid ?? {}) },
   };

@@ -138,6 +138,8 @@ export async function ensureStationMeans(editionId: string, params: BuildParamet
       .update(editions)
       .set({
         inputsHash: inputs.inputsHash,
+        // built from any synthetic demo station → labelled synthetic demo data wherever shown
+        isDemo: inputs.stations.some((s) => s.isDemo),
         summary: { stations: { total: inputs.stations.length, samples: inputs.sampleCount } } as unknown as EditionSummary,
       })
       .where(eq(editions.id, editionId));
