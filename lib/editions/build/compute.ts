@@ -561,41 +561,53 @@ function extrapolationStats(extra: Uint8Array, ctx: GridContext, km: number): Su
 
 const PERCENTILE_SAMPLE = 65_536;
 
-/**
- * min, max, mean over the cells with a value; the 2nd and 98th percentiles from every k-th such
- * cell when there are more than 65,536 (a deterministic subsample; the legend's range only).
- */
-export function planeStatsOf(plane: Float32Array, transform?: (v: number) => number): PlaneStats {
+/** Stats of one plane, optionally also of its square root (variance → standard deviation), in one pass. */
+function statsPass(plane: Float32Array, withSqrt: boolean): { stats: PlaneStats; sqrt: PlaneStats | null } {
+  const n = plane.length;
+  // percentiles from every `step`-th cell (a deterministic subsample; the legend's range only)
+  const step = Math.max(1, Math.floor(n / PERCENTILE_SAMPLE));
+  const sample = new Float64Array(Math.ceil(n / step));
+  let k = 0;
   let cells = 0;
   let min = Infinity;
   let max = -Infinity;
   let sum = 0;
-  for (let c = 0; c < plane.length; c++) {
-    let v = plane[c];
+  let sumSqrt = 0;
+  for (let c = 0; c < n; c++) {
+    const v = plane[c];
     if (v !== v) continue;
-    if (transform) v = transform(v);
     cells++;
     if (v < min) min = v;
     if (v > max) max = v;
     sum += v;
+    if (withSqrt) sumSqrt += Math.sqrt(v);
+    if (c % step === 0) sample[k++] = v;
   }
-  if (!cells) return { cells: 0, min: NaN, max: NaN, mean: NaN, p02: NaN, p98: NaN };
-  const step = Math.max(1, Math.ceil(cells / PERCENTILE_SAMPLE));
-  const sample = new Float64Array(Math.ceil(cells / step));
-  let k = 0;
-  let seen = 0;
-  for (let c = 0; c < plane.length; c++) {
-    const v = plane[c];
-    if (v !== v) continue;
-    if (seen++ % step === 0) sample[k++] = transform ? transform(v) : v;
+  if (!cells) {
+    const none = { cells: 0, min: NaN, max: NaN, mean: NaN, p02: NaN, p98: NaN };
+    return { stats: none, sqrt: withSqrt ? none : null };
   }
   const s = sample.subarray(0, k).sort();
-  const q = (p: number) => s[Math.min(k - 1, Math.max(0, Math.round(p * (k - 1))))];
-  return { cells, min, max, mean: sum / cells, p02: q(0.02), p98: q(0.98) };
+  const q = (p: number) => (k ? s[Math.min(k - 1, Math.max(0, Math.round(p * (k - 1))))] : NaN);
+  const stats = { cells, min, max, mean: sum / cells, p02: q(0.02), p98: q(0.98) };
+  // √ is monotone: its min, max and percentiles are the roots of the plane's
+  const sqrt = withSqrt
+    ? { cells, min: Math.sqrt(min), max: Math.sqrt(max), mean: sumSqrt / cells, p02: Math.sqrt(stats.p02), p98: Math.sqrt(stats.p98) }
+    : null;
+  return { stats, sqrt };
+}
+
+/**
+ * min, max, mean over the cells with a value; the 2nd and 98th percentiles from every k-th cell
+ * (k = ⌊cells / 65,536⌋, at least 1; a deterministic subsample for the legend's range).
+ */
+export function planeStatsOf(plane: Float32Array): PlaneStats {
+  return statsPass(plane, false).stats;
 }
 
 function planeStats(value: Float32Array, variance: Float32Array): Pick<SurfaceStats, "value" | "variance" | "sd"> {
-  return { value: planeStatsOf(value), variance: planeStatsOf(variance), sd: planeStatsOf(variance, Math.sqrt) };
+  const v = statsPass(variance, true);
+  return { value: statsPass(value, false).stats, variance: v.stats, sd: v.sqrt! };
 }
 
 function surfaceResult(

@@ -254,38 +254,54 @@ export async function runEditionBuild(editionId: string, hooks: BuildHooks = {})
 
   const done = await donePeriods(editionId);
   const pause = process.env.RAINPRINT_TEST === "1" ? (hooks.pauseAfterPeriodMs ?? 0) : 0;
-  for (let i = 0; i < BUILD_ORDER.length; i++) {
-    const period = BUILD_ORDER[i];
-    if (done.has(period)) continue;
-    const label = period === 0 ? "annual" : `month ${period}`;
-    const base = 0.05 + (0.9 * i) / BUILD_ORDER.length;
-    const span = 0.9 / BUILD_ORDER.length;
-    await report(`surfaces: ${label}`, base);
-    await deletePeriod(editionId, period);
-    const means = await periodMeans(editionId, period);
-    const results = await buildPeriodSurfaces(period, means, ctx, params, {
-      signal: hooks.signal,
-      threads: hooks.threads,
-      timings,
-      onProgress: hooks.progress ? (f) => void hooks.progress!({ stage: `surfaces: ${label}`, fraction: base + span * 0.8 * f }) : undefined,
-    });
-    if (period === 0) {
-      const months = [];
-      for (let m = 1; m <= 12; m++) {
-        const p = await readBack(editionId, m, ctx);
-        if (p) months.push(p);
-      }
-      if (months.length === 12) results.splice(results.length - 1, 0, annualPrecipitation(months, ctx, params));
-    }
-    hooks.signal?.throwIfAborted();
+  // A period's surfaces are written while the next period is kriged (worker threads), so the
+  // writing (deflate + inserts, this thread) overlaps the kriging. Writes stay in period order and
+  // the δ2H row stays last within its period, so "done" keeps its meaning for a resume.
+  let pending: Promise<void> = Promise.resolve();
+  const writePeriod = async (period: number, results: SurfaceResult[]) => {
     const tw = performance.now();
-    // δ2H last: its row marks the period as complete
     for (const r of results) await writeSurface(editionId, ctx, r);
     timings.write = (timings.write ?? 0) + (performance.now() - tw) / 1000;
     await hooks.periodDone?.(period);
     if (pause) await new Promise((res) => setTimeout(res, pause));
-    hooks.signal?.throwIfAborted();
+  };
+  try {
+    for (let i = 0; i < BUILD_ORDER.length; i++) {
+      const period = BUILD_ORDER[i];
+      if (done.has(period)) continue;
+      const label = period === 0 ? "annual" : `month ${period}`;
+      const base = 0.05 + (0.9 * i) / BUILD_ORDER.length;
+      const span = 0.9 / BUILD_ORDER.length;
+      await report(`surfaces: ${label}`, base);
+      await deletePeriod(editionId, period);
+      const means = await periodMeans(editionId, period);
+      if (period === 0) await pending; // the annual precipitation sums the stored months
+      const results = await buildPeriodSurfaces(period, means, ctx, params, {
+        signal: hooks.signal,
+        threads: hooks.threads,
+        timings,
+        onProgress: hooks.progress ? (f) => void hooks.progress!({ stage: `surfaces: ${label}`, fraction: base + span * 0.8 * f }) : undefined,
+      });
+      if (period === 0) {
+        const months = [];
+        for (let m = 1; m <= 12; m++) {
+          const p = await readBack(editionId, m, ctx);
+          if (p) months.push(p);
+        }
+        if (months.length === 12) results.splice(results.length - 1, 0, annualPrecipitation(months, ctx, params));
+      }
+      await pending;
+      hooks.signal?.throwIfAborted();
+      pending = writePeriod(period, results);
+      // surface an early write failure at the next await instead of as an unhandled rejection
+      pending.catch(() => {});
+    }
+    await pending;
+  } catch (e) {
+    await pending.catch(() => {});
+    throw e;
   }
+  hooks.signal?.throwIfAborted();
 
   await report("summary and comparison", 0.96);
   t = performance.now();
