@@ -260,9 +260,19 @@ function setKey(codes: string[]): string {
   return codes.join("\u0000");
 }
 
+/** One period after the fits, ready to krige. */
+export interface PreparedPeriod {
+  period: number;
+  kriged: KrigedVariable[];
+  excludedIso: number;
+}
+
 /**
  * Build every surface of one month (1–12) or of the annual period (0). For the annual period the
  * precipitation surface is not made here (it is the sum of the months: `annualPrecipitation`).
+ * The three phases — `preparePeriod` (trends, variograms, cross-validation; this thread),
+ * `krigePeriod` (worker threads) and `assemblePeriod` (this thread) — can also be run separately so
+ * one period's assembly overlaps the next period's kriging.
  */
 export async function buildPeriodSurfaces(
   period: number,
@@ -271,7 +281,15 @@ export async function buildPeriodSurfaces(
   params: BuildParameters,
   opts: PeriodOptions = {},
 ): Promise<SurfaceResult[]> {
-  const timings = opts.timings;
+  const prepared = preparePeriod(period, means, params, opts.timings);
+  opts.signal?.throwIfAborted();
+  const planes = await krigePeriod(prepared, ctx, opts);
+  opts.signal?.throwIfAborted();
+  return assemblePeriod(prepared, planes, ctx, params, opts.timings);
+}
+
+/** Phase 1: the period's station sets, trends, variograms (chosen by leave-one-out) and kriging models. */
+export function preparePeriod(period: number, means: StationPeriodMean[], params: BuildParameters, timings?: Record<string, number>): PreparedPeriod {
   // stations sorted by code: the model order is independent of the query order
   const sorted = [...means].sort((a, b) => (a.code < b.code ? -1 : a.code > b.code ? 1 : 0));
   const iso = sorted.filter((m) => m.included && m.d18O !== null && m.dExcess !== null);
@@ -336,10 +354,16 @@ export async function buildPeriodSurfaces(
       });
     }
   });
-  opts.signal?.throwIfAborted();
+  return { period, kriged, excludedIso };
+}
 
-  // krige each station set's models together (shared neighbour search)
-  const planes = new Map<SurfaceVariable, { value: Float32Array; variance: Float32Array }>();
+export type PeriodPlanes = Map<SurfaceVariable, { value: Float32Array; variance: Float32Array }>;
+
+/** Phase 2: krige each station set's models together (shared neighbour search), on worker threads. */
+export async function krigePeriod(prepared: PreparedPeriod, ctx: GridContext, opts: PeriodOptions = {}): Promise<PeriodPlanes> {
+  const { kriged } = prepared;
+  const timings = opts.timings;
+  const planes: PeriodPlanes = new Map();
   const t0 = performance.now();
   const groups = [...new Set(kriged.map((k) => k.stations))];
   let done = 0;
@@ -359,8 +383,18 @@ export async function buildPeriodSurfaces(
     done += members.length;
   }
   if (timings) timings.krige = (timings.krige ?? 0) + (performance.now() - t0) / 1000;
-  opts.signal?.throwIfAborted();
+  return planes;
+}
 
+/** Phase 3: trend and back-transforms on the grid, δ2H, extrapolation planes, statistics and records. */
+export function assemblePeriod(
+  prepared: PreparedPeriod,
+  planes: PeriodPlanes,
+  ctx: GridContext,
+  params: BuildParameters,
+  timings?: Record<string, number>,
+): SurfaceResult[] {
+  const { period, kriged, excludedIso } = prepared;
   return time(timings, "assemble", () => {
     const extrapolation = new Map<StationSet, Uint8Array>();
     const extrapolationOf = (set: StationSet) => {

@@ -6,7 +6,7 @@ import { editionStationMeans, editions, reviewEvents, samples, stations, surface
 import { aggregateStationMeans } from "@/lib/isotopes";
 import { forgetSurfaceChunks, readSurfacePlaneData, writeSurfacePlanes, CHUNK } from "@/lib/surfaces/store";
 import type { EditionSummary, SurfaceGridSpec } from "../types";
-import { annualPrecipitation, buildPeriodSurfaces, makeGrid, type BuildParameters, type GridContext, type StationPeriodMean, type SurfaceResult } from "./compute";
+import { annualPrecipitation, assemblePeriod, krigePeriod, makeGrid, preparePeriod, type BuildParameters, type GridContext, type StationPeriodMean, type SurfaceResult } from "./compute";
 import { computeEditionDiff } from "./diff";
 import { loadActiveElevation } from "./elevation";
 
@@ -254,10 +254,16 @@ export async function runEditionBuild(editionId: string, hooks: BuildHooks = {})
 
   const done = await donePeriods(editionId);
   const pause = process.env.RAINPRINT_TEST === "1" ? (hooks.pauseAfterPeriodMs ?? 0) : 0;
-  // A period's surfaces are written while the next period is kriged (worker threads), so the
-  // writing (deflate + inserts, this thread) overlaps the kriging. Writes stay in period order and
-  // the δ2H row stays last within its period, so "done" keeps its meaning for a resume.
+  // Overlapped: while period p+1 is kriged on worker threads, this thread assembles period p and
+  // writes it (deflate + inserts). Writes stay in period order and the δ2H row stays last within its
+  // period, so "done" keeps its meaning for a resume. The kriging is aborted if anything fails.
+  const todo = BUILD_ORDER.map((period, i) => ({ period, i })).filter((x) => !done.has(x.period));
+  const local = new AbortController();
+  const onAbort = () => local.abort(hooks.signal?.reason);
+  hooks.signal?.addEventListener("abort", onAbort);
+  if (hooks.signal?.aborted) onAbort();
   let pending: Promise<void> = Promise.resolve();
+  let inFlight: Promise<unknown> = Promise.resolve();
   const writePeriod = async (period: number, results: SurfaceResult[]) => {
     const tw = performance.now();
     for (const r of results) await writeSurface(editionId, ctx, r);
@@ -265,24 +271,34 @@ export async function runEditionBuild(editionId: string, hooks: BuildHooks = {})
     await hooks.periodDone?.(period);
     if (pause) await new Promise((res) => setTimeout(res, pause));
   };
+  const label = (period: number) => (period === 0 ? "annual" : `month ${period}`);
+  const start = async (k: number) => {
+    const { period, i } = todo[k];
+    const base = 0.05 + (0.9 * i) / BUILD_ORDER.length;
+    const span = 0.9 / BUILD_ORDER.length;
+    await deletePeriod(editionId, period);
+    const prepared = preparePeriod(period, await periodMeans(editionId, period), params, timings);
+    const planes = krigePeriod(prepared, ctx, {
+      signal: local.signal,
+      threads: hooks.threads,
+      timings,
+      onProgress: hooks.progress ? (f) => void hooks.progress!({ stage: `surfaces: ${label(period)}`, fraction: base + span * 0.9 * f }) : undefined,
+    });
+    inFlight = planes.catch(() => {});
+    return { prepared, planes, base };
+  };
   try {
-    for (let i = 0; i < BUILD_ORDER.length; i++) {
-      const period = BUILD_ORDER[i];
-      if (done.has(period)) continue;
-      const label = period === 0 ? "annual" : `month ${period}`;
-      const base = 0.05 + (0.9 * i) / BUILD_ORDER.length;
-      const span = 0.9 / BUILD_ORDER.length;
-      await report(`surfaces: ${label}`, base);
-      await deletePeriod(editionId, period);
-      const means = await periodMeans(editionId, period);
-      if (period === 0) await pending; // the annual precipitation sums the stored months
-      const results = await buildPeriodSurfaces(period, means, ctx, params, {
-        signal: hooks.signal,
-        threads: hooks.threads,
-        timings,
-        onProgress: hooks.progress ? (f) => void hooks.progress!({ stage: `surfaces: ${label}`, fraction: base + span * 0.8 * f }) : undefined,
-      });
+    let next = todo.length ? await start(0) : null;
+    for (let k = 0; k < todo.length; k++) {
+      const cur = next!;
+      const period = todo[k].period;
+      await report(`surfaces: ${label(period)}`, cur.base);
+      const planes = await cur.planes;
+      local.signal.throwIfAborted();
+      next = k + 1 < todo.length ? await start(k + 1) : null;
+      const results = assemblePeriod(cur.prepared, planes, ctx, params, timings);
       if (period === 0) {
+        await pending; // the annual precipitation sums the stored months
         const months = [];
         for (let m = 1; m <= 12; m++) {
           const p = await readBack(editionId, m, ctx);
@@ -291,15 +307,17 @@ export async function runEditionBuild(editionId: string, hooks: BuildHooks = {})
         if (months.length === 12) results.splice(results.length - 1, 0, annualPrecipitation(months, ctx, params));
       }
       await pending;
-      hooks.signal?.throwIfAborted();
+      local.signal.throwIfAborted();
       pending = writePeriod(period, results);
-      // surface an early write failure at the next await instead of as an unhandled rejection
-      pending.catch(() => {});
+      pending.catch(() => {}); // awaited below; no unhandled rejection meanwhile
     }
     await pending;
   } catch (e) {
-    await pending.catch(() => {});
+    local.abort(e);
+    await Promise.all([pending.catch(() => {}), inFlight]);
     throw e;
+  } finally {
+    hooks.signal?.removeEventListener("abort", onAbort);
   }
   hooks.signal?.throwIfAborted();
 
