@@ -37,6 +37,12 @@ export const PROBLEM_TYPES = {
     description:
       "The endpoint or feature needs a plan the caller does not have. `detail` names the lowest plan that includes it; the pricing page lists what each plan unlocks.",
   },
+  "unknown-edition": {
+    status: 404,
+    title: "No such published edition",
+    description:
+      "The edition named in the request does not exist or is not published. Leave the edition out to use the current one, or pick an id from the editions list (ids look like 2026.12.1).",
+  },
   "quota-exceeded": {
     status: 429,
     title: "The daily quota is used up",

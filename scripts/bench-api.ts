@@ -2,9 +2,14 @@
 // plan, quota counting, headers) costs per request, against a production build.
 // Loads a trivial health route and v1 endpoints with autocannon (64 connections)
 // and prints requests per second, p50/p99 latency, errors and the ratio to the
-// health route — medians of several runs. A benchmark, not a test: it asserts nothing.
+// health route — medians of several runs — then the single-site predict route against
+// the issue's goals (≥ half the health route's throughput, p99 < 50 ms, no errors) and
+// the time of a 10,000-site POST batch (goal ≤ 3 s). A benchmark, not a test: it asserts nothing.
+// The edition: the database's own when the editions build made one, else the test fixture
+// edition written from the seeded stations (tests/shared/fixture-edition-db.ts).
 //
-//   BENCH_SECONDS (default 10) per run, BENCH_RUNS (default 3), BENCH_CONNECTIONS (default 64)
+//   BENCH_SECONDS (default 20) per run, BENCH_RUNS (default 3), BENCH_CONNECTIONS (default 64),
+//   BENCH_BATCH_RUNS (default 3), BENCH_ONLY=predict (only health, predict and the batch)
 import { spawnSync } from "node:child_process";
 import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
@@ -12,16 +17,21 @@ import path from "node:path";
 import autocannon from "autocannon";
 import { createClient } from "@libsql/client";
 import { generateApiKey } from "../lib/api/key-format";
+import { ensureLookupEdition } from "../tests/shared/fixture-edition-db";
 // @ts-expect-error plain ESM helper without type declarations
 import { ensureBuild } from "./lib/build.mjs";
 // @ts-expect-error plain ESM helper without type declarations
 import { freePort, localEnv, serviceSpecs, startProcesses } from "./lib/services.mjs";
 
-const SECONDS = Number(process.env.BENCH_SECONDS ?? 10);
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 20);
+const BATCH_RUNS = Number(process.env.BENCH_BATCH_RUNS ?? 3);
+const BATCH_SITES = 10_000;
 const RUNS = Number(process.env.BENCH_RUNS ?? 3);
 const CONNECTIONS = Number(process.env.BENCH_CONNECTIONS ?? 64);
 
-type Target = { name: string; path: string; withKey: boolean };
+/** `paths`: cycle through these instead of repeating `path` (every predict request asks for another site). */
+type Target = { name: string; path: string; withKey: boolean; paths?: string[] };
+const PREDICT_NAME = "GET /api/v1/predict (key; a different site each request)";
 const TARGETS: Target[] = [
   { name: "health (trivial route)", path: "/api/health", withKey: false },
   { name: "GET /api/v1 (key; caller + headers, free)", path: "/api/v1", withKey: true },
@@ -33,8 +43,19 @@ type Result = { rps: number; p50: number; p99: number; non2xx: number; errors: n
 
 const median = (xs: number[]) => xs.slice().sort((a, b) => a - b)[Math.floor(xs.length / 2)];
 
-async function load(url: string, headers: Record<string, string>, seconds: number): Promise<Result> {
-  const r = await autocannon({ url, connections: CONNECTIONS, duration: seconds, headers });
+async function load(url: string, headers: Record<string, string>, seconds: number, paths?: string[]): Promise<Result> {
+  let next = 0;
+  const requests = paths
+    ? [
+        {
+          setupRequest: (req: { path?: string }) => {
+            req.path = paths[next++ % paths.length];
+            return req;
+          },
+        },
+      ]
+    : undefined;
+  const r = await autocannon({ url, connections: CONNECTIONS, duration: seconds, headers, ...(requests ? { requests } : {}) });
   return { rps: r.requests.average, p50: r.latency.p50, p99: r.latency.p99, non2xx: r.non2xx, errors: r.errors + r.timeouts };
 }
 
@@ -47,11 +68,19 @@ async function main() {
   const setup = spawnSync(path.resolve("node_modules/.bin/tsx"), ["--conditions=react-server", path.resolve("scripts/setup.ts")], { env: { ...process.env, ...env }, stdio: "inherit" });
   if (setup.status !== 0) throw new Error("scripts/setup.ts failed");
 
-  // One Institution organisation and key per keyed run, so no run meets a daily quota.
   const db = createClient({ url: databaseUrl });
+  const edition = await ensureLookupEdition(db);
+  // 2,000 different sites (reproducible), so no answer is ever the same request twice in a row
+  let s0 = 7;
+  const r0 = () => ((s0 = (Math.imul(s0, 1664525) + 1013904223) >>> 0) / 4294967296); // LCG, Numerical Recipes [trade]
+  const sitePaths = Array.from({ length: 2000 }, () => `/api/v1/predict?lat=${(-45 + 110 * r0()).toFixed(4)}&lon=${(-180 + 360 * r0()).toFixed(4)}&elevation=${Math.round(2000 * r0())}&edition=${edition}`);
+  TARGETS.push({ name: PREDICT_NAME, path: sitePaths[0], withKey: true, paths: sitePaths });
+  if (process.env.BENCH_ONLY === "predict") TARGETS.splice(1, TARGETS.length - 2);
+
+  // One Institution organisation and key per keyed run (and per batch), so no run meets a daily quota.
   const owner = String((await db.execute("SELECT id FROM users WHERE email = 'institution@rainprint.example'")).rows[0].id);
   const keys: string[] = [];
-  for (let i = 0; i < TARGETS.length * RUNS + 1; i++) {
+  for (let i = 0; i < TARGETS.length * RUNS + 1 + BATCH_RUNS + 1; i++) {
     const orgId = crypto.randomUUID();
     const { key, prefix, hash } = generateApiKey();
     await db.batch(
@@ -76,7 +105,7 @@ async function main() {
     console.log(`\nbench:api — ${CONNECTIONS} connections, ${SECONDS} s per run, median of ${RUNS} runs (os.cpus: ${os.cpus().length})\n`);
     let k = 0;
     // Warm up every route once (first-request compilation of server chunks, lazy caches).
-    for (const t of TARGETS) await load(`${base}${t.path}`, t.withKey ? { authorization: `Bearer ${keys[k]}` } : {}, 2);
+    for (const t of TARGETS) await load(`${base}${t.path}`, t.withKey ? { authorization: `Bearer ${keys[k]}` } : {}, 2, t.paths);
     k++;
     const rows: { name: string; r: Result }[] = [];
     for (const t of TARGETS) {
@@ -85,7 +114,7 @@ async function main() {
         // Anonymous runs: each run from its own documentation address (RFC 5737), so the Open quota is
         // what answers beyond 50 requests — those answers are 429s and show up as non-2xx.
         const headers: Record<string, string> = t.withKey ? { authorization: `Bearer ${keys[k++]}` } : { "x-forwarded-for": `198.51.100.${i + 1}` };
-        runs.push(await load(`${base}${t.path}`, headers, SECONDS));
+        runs.push(await load(`${base}${t.path}`, headers, SECONDS, t.paths));
       }
       rows.push({ name: t.name, r: { rps: median(runs.map((x) => x.rps)), p50: median(runs.map((x) => x.p50)), p99: median(runs.map((x) => x.p99)), non2xx: median(runs.map((x) => x.non2xx)), errors: median(runs.map((x) => x.errors)) } });
     }
@@ -94,6 +123,37 @@ async function main() {
     for (const { name, r } of rows)
       console.log(name.padEnd(72) + r.rps.toFixed(0).padStart(9) + r.p50.toFixed(1).padStart(9) + r.p99.toFixed(1).padStart(9) + String(r.non2xx).padStart(9) + String(r.errors).padStart(8) + `  ${(r.rps / health).toFixed(2)}`);
     console.log("\nThe anonymous row answers 429 after the Open plan's daily quota: it measures refusals (quota checks in memory), not data.");
+
+    const predict = rows.find((r) => r.name === PREDICT_NAME)!.r;
+    const ratio = predict.rps / health;
+    console.log(`\nsingle-site predict (edition ${edition}):`);
+    console.log(`  throughput ${predict.rps.toFixed(0)} req/s = ${ratio.toFixed(2)} × health (goal ≥ 0.50: ${ratio >= 0.5 ? "met" : "NOT met"})`);
+    console.log(`  p50 ${predict.p50.toFixed(1)} ms, p99 ${predict.p99.toFixed(1)} ms (goal < 50 ms: ${predict.p99 < 50 ? "met" : "NOT met"})`);
+    console.log(`  errors ${predict.errors}, non-2xx ${predict.non2xx} (goal 0: ${predict.errors + predict.non2xx === 0 ? "met" : "NOT met"})`);
+
+    // A 10,000-site batch: sites spread over the inhabited latitudes, reproducible.
+    let seed = 20261202;
+    const rnd = () => ((seed = (Math.imul(seed, 1664525) + 1013904223) >>> 0) / 4294967296); // LCG, Numerical Recipes [trade]
+    const sites = Array.from({ length: BATCH_SITES }, (_, i) => ({ id: `s${i}`, lat: Number((-45 + 110 * rnd()).toFixed(4)), lon: Number((-180 + 360 * rnd()).toFixed(4)), elevation: Math.round(2000 * rnd()) }));
+    const body = JSON.stringify({ edition, sites });
+    const times: number[] = [];
+    const post = async (key: string) => {
+      const t0 = performance.now();
+      const res = await fetch(`${base}/api/v1/predict`, { method: "POST", headers: { authorization: `Bearer ${key}`, "content-type": "application/json" }, body });
+      const text = await res.text();
+      const ms = performance.now() - t0;
+      if (res.status !== 200) throw new Error(`batch answered ${res.status}: ${text.slice(0, 300)}`);
+      return { ms, bytes: text.length, count: (JSON.parse(text) as { count: number }).count };
+    };
+    await post(keys[k++]); // warm-up
+    let last = { ms: 0, bytes: 0, count: 0 };
+    for (let i = 0; i < BATCH_RUNS; i++) {
+      last = await post(keys[k++]);
+      times.push(last.ms);
+    }
+    const med = median(times);
+    console.log(`\n${BATCH_SITES.toLocaleString("en")}-site POST /api/v1/predict (JSON in, ${(last.bytes / 1e6).toFixed(1)} MB JSON out, ${last.count} predictions):`);
+    console.log(`  runs ${times.map((t) => (t / 1000).toFixed(2)).join(" s, ")} s; median ${(med / 1000).toFixed(2)} s (goal ≤ 3 s: ${med <= 3000 ? "met" : "NOT met"})`);
   } finally {
     await services.stop();
     rmSync(dir, { recursive: true, force: true });

@@ -19,7 +19,7 @@ import { consumeUsage, noteKeyUse, peekUsage, type Charge } from "./usage";
 // A request goes: cross-site check → caller (key, session or anonymous; 401
 // for a bad key) → plan (403 `plan-required`, naming the plan that unlocks
 // it) → path, query and body parsed with their schemas (400, counted against
-// nothing) → quota (429 `quota-exceeded` with Retry-After) → handler → JSON.
+// nothing; `beforeQuota` checks likewise) → quota (429 `quota-exceeded` with Retry-After) → handler → JSON.
 // Every answer, errors included, carries RateLimit and RateLimit-Policy.
 
 export type HttpMethod = "GET" | "POST" | "PUT" | "PATCH" | "DELETE";
@@ -86,6 +86,11 @@ export type EndpointSpec<P extends z.ZodType | undefined, Q extends z.ZodType | 
   /** Problem types this endpoint can answer besides the common ones (400, 401, 429, 500). */
   errors?: readonly ProblemType[];
   examples: readonly EndpointExample[];
+  /**
+   * Checks on the parsed input that must pass before anything is counted (e.g. the edition
+   * exists, the batch fits the caller's plan): throw an AppError to refuse the request.
+   */
+  beforeQuota?: (ctx: EndpointContext<P, Q, B>) => Promise<void>;
   handler: (ctx: EndpointContext<P, Q, B>) => Promise<z.output<R> | Response>;
 };
 
@@ -106,6 +111,7 @@ export type ApiEndpoint = {
   readonly quota: { readonly cost: number | ((input: { params: unknown; query: unknown; body: unknown }) => number); readonly meter: Meter };
   readonly errors: readonly ProblemType[];
   readonly examples: readonly EndpointExample[];
+  readonly beforeQuota?: (ctx: EndpointContext<z.ZodType, z.ZodType, z.ZodType>) => Promise<void>;
   readonly handler: (ctx: EndpointContext<z.ZodType, z.ZodType, z.ZodType>) => Promise<unknown>;
 };
 
@@ -220,6 +226,7 @@ export function v1Handler(ep: ApiEndpoint): V1RouteHandler {
       const query = ep.query ? ep.query.parse(Object.fromEntries(url.searchParams)) : undefined;
       const body = ep.body ? ep.body.schema.parse(await readBody(req, ep.body)) : undefined;
       const input = { params, query, body };
+      if (ep.beforeQuota) await ep.beforeQuota({ req, caller, params, query, body } as EndpointContext<z.ZodType, z.ZodType, z.ZodType>);
       const cost = typeof ep.quota.cost === "function" ? ep.quota.cost(input) : ep.quota.cost;
       const { charges, meters } = chargesFor(caller, ep.quota.meter, cost);
       if (cost > 0) {

@@ -7,6 +7,7 @@ import { errors } from "@/lib/errors";
 import { cancelJob, enqueueJob } from "@/lib/jobs";
 import { checkBuildParameters, defaultBuildParameters, GLOBAL_EXTENT, type BuildParameters } from "./build/compute";
 import { audit, nextEditionId, publishEdition } from "./build/pipeline";
+import { activeElevationModelId } from "./elevation-models";
 
 // Starting, cancelling, retrying and publishing edition builds (moderators). The build itself runs
 // in the worker (job kind "build-edition", lib/jobs/handlers/build-edition.ts).
@@ -51,6 +52,7 @@ export async function startEditionBuild(
   const params =
     opts.parameters ??
     defaultBuildParameters({
+      elevationModelId: await activeElevationModelId(),
       maxNeighbors: input.maxNeighbors,
       extrapolationKm: input.extrapolationKm,
       grid: { resolutionDeg: input.resolutionDeg, extent: { west: input.west, south: input.south, east: input.east, north: input.north }, landOnly: true },
@@ -131,3 +133,15 @@ export async function buildJobOf(jobId: string | null) {
 }
 
 
+
+export interface EditionBuildStatus {
+  id: string;
+  status: string;
+  job: Awaited<ReturnType<typeof buildJobOf>>;
+}
+
+/** Status of an edition and its build job; 404 for an unknown id. */
+export async function editionBuildStatus(id: string): Promise<EditionBuildStatus> {
+  const e = await editionOr404(id);
+  return { id: e.id, status: e.status, job: await buildJobOf(e.jobId) };
+}

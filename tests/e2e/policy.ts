@@ -99,7 +99,12 @@ export const POLICY: PolicyEntry[] = [
   { file: "app/pricing/page.tsx", url: "/pricing", expect: page.open() },
   { file: "app/pricing/cancelled/page.tsx", url: "/pricing/cancelled", expect: page.open() },
   { file: "app/downloads/page.tsx", url: "/downloads", expect: page.open(), note: "public; the download buttons appear only for plans that include them" },
+  { file: "app/editions/page.tsx", url: "/editions", expect: page.open() },
+  { file: "app/editions/[id]/page.tsx", url: "/editions/current", expect: page.open(), note: "published and withdrawn editions are public; unpublished builds only for moderators (404 to others)" },
   { file: "app/invitations/accept/page.tsx", url: "/invitations/accept?token=not-a-real-invitation-token", expect: page.open(), note: "shows that the link is not valid" },
+  { file: "app/lookup/page.tsx", url: "/lookup", expect: page.open(), note: "the form; a lookup counts against the Open plan's daily cap" },
+  { file: "app/lookup/report/page.tsx", url: "/lookup/report?lat=91&lon=7", expect: page.open(), note: "bad coordinates show the form with the message and count nothing" },
+  { file: "app/lookup/batch/page.tsx", url: "/lookup/batch", expect: page.open(), note: "states each plan's batch limit; the upload form only for plans that include batch lookups" },
   { file: "app/dev/mailbox/page.tsx", url: "/dev/mailbox", expect: page.open(), note: "present while the mail stand-in is configured (always in tests)" },
 
   // ── signed-in pages ──
@@ -118,9 +123,11 @@ export const POLICY: PolicyEntry[] = [
     note: "a checkout that is not the viewer's shows 'not found' text, never another person's plan",
   },
   { file: "app/jobs/page.tsx", url: "/jobs", expect: page.roles(["moderator", "admin"]) },
+  { file: "app/editions/builds/page.tsx", url: "/editions/builds", expect: page.roles(["moderator", "admin"]) },
   { file: "app/account/api-keys/page.tsx", url: "/account/api-keys", expect: page.signedIn(), note: "Open accounts see why they cannot make keys" },
   { file: "app/account/usage/page.tsx", url: "/account/usage", expect: page.signedIn() },
   { file: "app/admin/users/page.tsx", url: "/admin/users", expect: page.roles(["admin"]) },
+  { file: "app/admin/elevation/page.tsx", url: "/admin/elevation", expect: page.roles(["admin"]) },
 
   // ── route handlers ──
   { file: "app/api/health/route.ts", url: "/api/health", expect: api.open() },
@@ -146,6 +153,8 @@ export const POLICY: PolicyEntry[] = [
   { file: "app/api/account/profile/route.ts", url: "/api/account/profile", method: "PATCH", body: {}, expect: api.signedIn(400) },
   { file: "app/api/me/route.ts", url: "/api/me", expect: api.signedIn(200) },
   { file: "app/api/admin/users/route.ts", url: "/api/admin/users", expect: api.roles(["admin"]) },
+  { file: "app/api/admin/elevation/route.ts", url: "/api/admin/elevation?name=x", method: "POST", expect: api.roles(["admin"], 400), note: "an empty body is not a GeoTIFF: 400, nothing stored" },
+  { file: "app/api/admin/elevation/[id]/route.ts", url: "/api/admin/elevation/no-such-model", method: "PATCH", body: { active: true }, expect: api.roles(["admin"], 404) },
   { file: "app/api/admin/users/[id]/route.ts", url: "/api/admin/users/no-such-user", method: "PATCH", body: {}, expect: api.roles(["admin"], 400) },
   {
     file: "app/api/stripe/webhook/route.ts",
@@ -194,6 +203,12 @@ export const POLICY: PolicyEntry[] = [
     note: "plan checked before the edition is looked up: Open → 403, paid plans → 404 for an unknown edition",
   },
   { file: "app/api/jobs/[id]/cancel/route.ts", url: "/api/jobs/no-such-job/cancel", method: "POST", expect: api.roles(["moderator", "admin"], 404) },
+  // ── edition builds (moderators) ──
+  { file: "app/api/editions/builds/route.ts", url: "/api/editions/builds", method: "POST", body: { resolutionDeg: 0 }, expect: api.roles(["moderator", "admin"], 400), note: "a cell size of 0 is refused, so nothing is built" },
+  { file: "app/api/editions/[id]/cancel/route.ts", url: "/api/editions/no-such-edition/cancel", method: "POST", expect: api.roles(["moderator", "admin"], 404) },
+  { file: "app/api/editions/[id]/resume/route.ts", url: "/api/editions/no-such-edition/resume", method: "POST", expect: api.roles(["moderator", "admin"], 404) },
+  { file: "app/api/editions/[id]/publish/route.ts", url: "/api/editions/no-such-edition/publish", method: "POST", expect: api.roles(["moderator", "admin"], 404) },
+  { file: "app/api/editions/[id]/status/route.ts", url: "/api/editions/no-such-edition/status", expect: api.roles(["moderator", "admin"], 404) },
 
   // ── API keys (the account's keys page calls these) ──
   { file: "app/api/account/api-keys/route.ts", url: "/api/account/api-keys", expect: api.signedIn(200) },
@@ -244,8 +259,27 @@ export const POLICY: PolicyEntry[] = [
   // ── public API v1 (anonymous callers are on Open; the perk column is a paid plan through a session) ──
   { file: "app/api/v1/route.ts", url: "/api/v1", expect: api.open() },
   { file: "app/api/v1/openapi.json/route.ts", url: "/api/v1/openapi.json", expect: api.open() },
+  { file: "app/api/v1/predict/route.ts", url: "/api/v1/predict?lat=91&lon=7", expect: api.open(400), note: "public; latitude 91 is refused before the edition is read (counts nothing)" },
+  {
+    file: "app/api/v1/predict/route.ts",
+    url: "/api/v1/predict",
+    method: "POST",
+    body: { sites: [] },
+    expect: api.plans(["researcher", "institution"], 400),
+    note: "batch lookups: plan checked before the body; an empty batch is a 400",
+  },
+  {
+    file: "app/api/lookup/batch/route.ts",
+    url: "/api/lookup/batch",
+    method: "POST",
+    body: {},
+    expect: api.plans(["researcher", "institution"], 400),
+    note: "the batch page's upload: plans with batch lookups; a body without a file is a 400",
+  },
   { file: "app/api/v1/stations/route.ts", url: "/api/v1/stations?limit=5", expect: api.open() },
   { file: "app/api/v1/stations/[code]/route.ts", url: "/api/v1/stations/RP-EUR-001", expect: api.open() },
+  { file: "app/api/v1/editions/route.ts", url: "/api/v1/editions", expect: api.open() },
+  { file: "app/api/v1/editions/[id]/route.ts", url: "/api/v1/editions/current", expect: api.open() },
   {
     file: "app/api/v1/stations/[code]/samples/route.ts",
     url: "/api/v1/stations/RP-EUR-001/samples?limit=5",

@@ -5,6 +5,8 @@ import { env } from "@/lib/env";
 import { allowedPlans, defineEndpoint, type ApiEndpoint } from "../endpoint";
 import { buildOpenApiDocument, type OpenApiDocument } from "../openapi";
 import { meterLimit } from "../quota";
+import { predictBatch, predictSite } from "./predict";
+import { getEditionById, listEditions } from "./editions";
 import { getStation, listStationSamples, listStations } from "./stations";
 
 // THE registry of the public API, version 1. Every v1 endpoint is declared
@@ -85,7 +87,17 @@ export const openApiDocument = defineEndpoint({
 });
 
 /** Every v1 endpoint, in the order the document and the API page list them. */
-export const V1_ENDPOINTS: readonly ApiEndpoint[] = [apiIndex, listStations, getStation, listStationSamples, openApiDocument];
+export const V1_ENDPOINTS: readonly ApiEndpoint[] = [
+  apiIndex,
+  predictSite,
+  predictBatch,
+  listStations,
+  getStation,
+  listStationSamples,
+  listEditions,
+  getEditionById,
+  openApiDocument,
+];
 
 let cachedDocument: OpenApiDocument | undefined;
 
@@ -94,4 +106,4 @@ export function v1OpenApiDocument(): OpenApiDocument {
   return (cachedDocument ??= buildOpenApiDocument(V1_ENDPOINTS, { serverUrl: env().APP_URL }));
 }
 
-export { getStation, listStationSamples, listStations };
+export { getEditionById, getStation, listEditions, listStationSamples, listStations, predictBatch, predictSite };

@@ -11,7 +11,7 @@
 //   precipitation: ordinary kriging of √P, P = max(ẑ, 0)², Var(P) = 4ẑ²σ² + 2σ⁴ (the variance of the
 //     square of a Gaussian variable [trade]); the annual surface is the sum of the twelve months.
 
-import { crossValidate, createKrigingModel, createStationSet, empiricalVariogram, fitVariogram, krigingModelToJSON, VARIOGRAM_MODELS } from "@/lib/geostats";
+import { crossValidate, createKrigingModel, createStationSet, empiricalVariogram, fitVariogram, greatCircleKm, krigingModelToJSON, VARIOGRAM_MODELS } from "@/lib/geostats";
 import type { CrossValidation, KrigingModel, StationSet, VariogramModelType } from "@/lib/geostats";
 import { krigeGrid } from "@/lib/geostats/grid-runner";
 import { landMask, type LonLatGrid } from "@/lib/geo";
@@ -53,6 +53,8 @@ export interface BuildParameters {
   stationMeanRules: Record<string, number>;
   /** How the δ2H variance treats the covariance of the δ18O and d-excess errors. */
   d2HCovariance: "loo-residual-correlation" | "independent";
+  /** Elevation model (elevation_models.id) giving each cell its elevation; null = sea-level-equivalent surfaces. */
+  elevationModelId: string | null;
 }
 
 export const GLOBAL_EXTENT = { west: -180, south: -90, east: 180, north: 90 } as const;
@@ -65,6 +67,7 @@ export function defaultBuildParameters(over: Partial<Omit<BuildParameters, "grid
     variogramModels: [...VARIOGRAM_MODELS],
     stationMeanRules: {},
     d2HCovariance: "loo-residual-correlation",
+    elevationModelId: null,
     ...over,
     grid: { resolutionDeg: 0.25, extent: { ...GLOBAL_EXTENT }, landOnly: true, ...(over.grid ?? {}) },
   };
@@ -257,9 +260,19 @@ function setKey(codes: string[]): string {
   return codes.join("\u0000");
 }
 
+/** One period after the fits, ready to krige. */
+export interface PreparedPeriod {
+  period: number;
+  kriged: KrigedVariable[];
+  excludedIso: number;
+}
+
 /**
  * Build every surface of one month (1–12) or of the annual period (0). For the annual period the
  * precipitation surface is not made here (it is the sum of the months: `annualPrecipitation`).
+ * The three phases — `preparePeriod` (trends, variograms, cross-validation; this thread),
+ * `krigePeriod` (worker threads) and `assemblePeriod` (this thread) — can also be run separately so
+ * one period's assembly overlaps the next period's kriging.
  */
 export async function buildPeriodSurfaces(
   period: number,
@@ -268,13 +281,24 @@ export async function buildPeriodSurfaces(
   params: BuildParameters,
   opts: PeriodOptions = {},
 ): Promise<SurfaceResult[]> {
-  const timings = opts.timings;
+  const prepared = preparePeriod(period, means, params, opts.timings);
+  opts.signal?.throwIfAborted();
+  const planes = await krigePeriod(prepared, ctx, opts);
+  opts.signal?.throwIfAborted();
+  return assemblePeriod(prepared, planes, ctx, params, opts.timings);
+}
+
+/** Phase 1: the period's station sets, trends, variograms (chosen by leave-one-out) and kriging models. */
+export function preparePeriod(period: number, means: StationPeriodMean[], params: BuildParameters, timings?: Record<string, number>): PreparedPeriod {
   // stations sorted by code: the model order is independent of the query order
   const sorted = [...means].sort((a, b) => (a.code < b.code ? -1 : a.code > b.code ? 1 : 0));
   const iso = sorted.filter((m) => m.included && m.d18O !== null && m.dExcess !== null);
   const withSamples = sorted.filter((m) => m.d18O !== null || m.dExcess !== null || m.included);
   const excludedIso = withSamples.length - iso.length;
-  const precip = period === 0 ? [] : sorted.filter((m) => m.precipMm !== null);
+  // Precipitation from the same stations as the isotope surfaces (those with a mean amount): the
+  // three surfaces then share one neighbour search, and a site's predicted amounts (which weight its
+  // predicted water line) come from the stations its δ values come from.
+  const precip = period === 0 ? [] : iso.filter((m) => m.precipMm !== null);
   if (iso.length < 8) throw new Error(`Period ${period}: only ${iso.length} stations pass the coverage rules; at least 8 are needed to fit a trend and a variogram.`);
 
   const sets = new Map<string, StationSet>();
@@ -326,14 +350,20 @@ export async function buildPeriodSurfaces(
         variogram: chosen.record,
         model: chosen.model,
         cv: chosen.cv,
-        excluded: sorted.length - precip.length,
+        excluded: iso.length - precip.length,
       });
     }
   });
-  opts.signal?.throwIfAborted();
+  return { period, kriged, excludedIso };
+}
 
-  // krige each station set's models together (shared neighbour search)
-  const planes = new Map<SurfaceVariable, { value: Float32Array; variance: Float32Array }>();
+export type PeriodPlanes = Map<SurfaceVariable, { value: Float32Array; variance: Float32Array }>;
+
+/** Phase 2: krige each station set's models together (shared neighbour search), on worker threads. */
+export async function krigePeriod(prepared: PreparedPeriod, ctx: GridContext, opts: PeriodOptions = {}): Promise<PeriodPlanes> {
+  const { kriged } = prepared;
+  const timings = opts.timings;
+  const planes: PeriodPlanes = new Map();
   const t0 = performance.now();
   const groups = [...new Set(kriged.map((k) => k.stations))];
   let done = 0;
@@ -353,8 +383,18 @@ export async function buildPeriodSurfaces(
     done += members.length;
   }
   if (timings) timings.krige = (timings.krige ?? 0) + (performance.now() - t0) / 1000;
-  opts.signal?.throwIfAborted();
+  return planes;
+}
 
+/** Phase 3: trend and back-transforms on the grid, δ2H, extrapolation planes, statistics and records. */
+export function assemblePeriod(
+  prepared: PreparedPeriod,
+  planes: PeriodPlanes,
+  ctx: GridContext,
+  params: BuildParameters,
+  timings?: Record<string, number>,
+): SurfaceResult[] {
+  const { period, kriged, excludedIso } = prepared;
   return time(timings, "assemble", () => {
     const extrapolation = new Map<StationSet, Uint8Array>();
     const extrapolationOf = (set: StationSet) => {
@@ -486,25 +526,64 @@ function residualCorrelation(a: CrossValidation, b: CrossValidation): number {
   return Math.max(-1, Math.min(1, r));
 }
 
-/** 1 where the cell is active and its nearest station is farther than `km`. */
+/**
+ * 1 where the cell is active and its nearest station is farther than `km` (ellipsoidal distance, as
+ * the kriging uses). Each station marks the cells within `km` of it: per grid row the longitude
+ * half-width of the circle on the sphere (cos Δλ = (cos δ − sin φ1 sin φ2) / (cos φ1 cos φ2),
+ * spherical law of cosines [trade]), widened by 1% for the ellipsoid, then each candidate cell is
+ * checked with the exact distance.
+ */
 export function extrapolationPlane(ctx: GridContext, set: StationSet, km: number): Uint8Array {
-  const out = new Uint8Array(ctx.cells);
-  const searcher = set.searcher();
-  const idx = new Int32Array(1);
-  const dist = new Float64Array(1);
-  const { nx, ny, lon0, dLon } = ctx.grid;
-  for (let row = 0; row < ny; row++) {
-    const lat = ctx.rowLat[row];
-    for (let col = 0; col < nx; col++) {
-      const c = row * nx + col;
-      if (!ctx.mask[c]) continue;
-      let lon = lon0 + col * dLon;
-      if (lon > 180) lon -= 360;
-      else if (lon <= -180) lon += 360;
-      searcher.nearest(lon, lat, 1, idx, dist, 0, idx, 0);
-      if (dist[0] > km) out[c] = 1;
+  const { nx, ny, lon0, dLon, dLat } = ctx.grid;
+  const near = new Uint8Array(ctx.cells);
+  const R = 6371.0088;
+  const delta = Math.min(Math.PI, (km * 1.01) / R);
+  const cosD = Math.cos(delta);
+  const rad = Math.PI / 180;
+  const global = Math.abs(nx * dLon - 360) < 1e-9;
+  for (let s = 0; s < set.count; s++) {
+    const slon = set.xy[2 * s];
+    const slat = set.xy[2 * s + 1];
+    const latSpan = (delta / rad) + dLat;
+    const r0 = Math.max(0, Math.floor((ctx.grid.lat0 - (slat + latSpan)) / dLat));
+    const r1 = Math.min(ny - 1, Math.ceil((ctx.grid.lat0 - (slat - latSpan)) / dLat));
+    const s1 = Math.sin(slat * rad);
+    const c1 = Math.cos(slat * rad);
+    for (let row = r0; row <= r1; row++) {
+      const lat = ctx.rowLat[row];
+      const c2 = Math.cos(lat * rad);
+      const den = c1 * c2;
+      let half: number; // degrees of longitude
+      if (den < 1e-12) half = 180;
+      else {
+        const cl = (cosD - s1 * Math.sin(lat * rad)) / den;
+        if (cl > 1) continue;
+        half = cl < -1 ? 180 : Math.acos(cl) / rad;
+      }
+      half += dLon;
+      let c0: number;
+      let cN: number;
+      if (half >= 180) {
+        c0 = 0;
+        cN = nx - 1;
+      } else {
+        c0 = Math.floor((slon - half - lon0) / dLon);
+        cN = Math.ceil((slon + half - lon0) / dLon);
+      }
+      for (let cc = c0; cc <= cN; cc++) {
+        let col = cc;
+        if (col < 0 || col >= nx) {
+          if (!global) continue;
+          col = ((col % nx) + nx) % nx;
+        }
+        const c = row * nx + col;
+        if (near[c] || !ctx.mask[c]) continue;
+        if (greatCircleKm(slon, slat, lon0 + col * dLon, lat) <= km) near[c] = 1;
+      }
     }
   }
+  const out = new Uint8Array(ctx.cells);
+  for (let c = 0; c < ctx.cells; c++) out[c] = ctx.mask[c] && !near[c] ? 1 : 0;
   return out;
 }
 
@@ -516,41 +595,53 @@ function extrapolationStats(extra: Uint8Array, ctx: GridContext, km: number): Su
 
 const PERCENTILE_SAMPLE = 65_536;
 
-/**
- * min, max, mean over the cells with a value; the 2nd and 98th percentiles from every k-th such
- * cell when there are more than 65,536 (a deterministic subsample; the legend's range only).
- */
-export function planeStatsOf(plane: Float32Array, transform?: (v: number) => number): PlaneStats {
+/** Stats of one plane, optionally also of its square root (variance → standard deviation), in one pass. */
+function statsPass(plane: Float32Array, withSqrt: boolean): { stats: PlaneStats; sqrt: PlaneStats | null } {
+  const n = plane.length;
+  // percentiles from every `step`-th cell (a deterministic subsample; the legend's range only)
+  const step = Math.max(1, Math.floor(n / PERCENTILE_SAMPLE));
+  const sample = new Float64Array(Math.ceil(n / step));
+  let k = 0;
   let cells = 0;
   let min = Infinity;
   let max = -Infinity;
   let sum = 0;
-  for (let c = 0; c < plane.length; c++) {
-    let v = plane[c];
+  let sumSqrt = 0;
+  for (let c = 0; c < n; c++) {
+    const v = plane[c];
     if (v !== v) continue;
-    if (transform) v = transform(v);
     cells++;
     if (v < min) min = v;
     if (v > max) max = v;
     sum += v;
+    if (withSqrt) sumSqrt += Math.sqrt(v);
+    if (c % step === 0) sample[k++] = v;
   }
-  if (!cells) return { cells: 0, min: NaN, max: NaN, mean: NaN, p02: NaN, p98: NaN };
-  const step = Math.max(1, Math.ceil(cells / PERCENTILE_SAMPLE));
-  const sample = new Float64Array(Math.ceil(cells / step));
-  let k = 0;
-  let seen = 0;
-  for (let c = 0; c < plane.length; c++) {
-    const v = plane[c];
-    if (v !== v) continue;
-    if (seen++ % step === 0) sample[k++] = transform ? transform(v) : v;
+  if (!cells) {
+    const none = { cells: 0, min: NaN, max: NaN, mean: NaN, p02: NaN, p98: NaN };
+    return { stats: none, sqrt: withSqrt ? none : null };
   }
   const s = sample.subarray(0, k).sort();
-  const q = (p: number) => s[Math.min(k - 1, Math.max(0, Math.round(p * (k - 1))))];
-  return { cells, min, max, mean: sum / cells, p02: q(0.02), p98: q(0.98) };
+  const q = (p: number) => (k ? s[Math.min(k - 1, Math.max(0, Math.round(p * (k - 1))))] : NaN);
+  const stats = { cells, min, max, mean: sum / cells, p02: q(0.02), p98: q(0.98) };
+  // √ is monotone: its min, max and percentiles are the roots of the plane's
+  const sqrt = withSqrt
+    ? { cells, min: Math.sqrt(min), max: Math.sqrt(max), mean: sumSqrt / cells, p02: Math.sqrt(stats.p02), p98: Math.sqrt(stats.p98) }
+    : null;
+  return { stats, sqrt };
+}
+
+/**
+ * min, max, mean over the cells with a value; the 2nd and 98th percentiles from every k-th cell
+ * (k = ⌊cells / 65,536⌋, at least 1; a deterministic subsample for the legend's range).
+ */
+export function planeStatsOf(plane: Float32Array): PlaneStats {
+  return statsPass(plane, false).stats;
 }
 
 function planeStats(value: Float32Array, variance: Float32Array): Pick<SurfaceStats, "value" | "variance" | "sd"> {
-  return { value: planeStatsOf(value), variance: planeStatsOf(variance), sd: planeStatsOf(variance, Math.sqrt) };
+  const v = statsPass(variance, true);
+  return { value: statsPass(value, false).stats, variance: v.stats, sd: v.sqrt! };
 }
 
 function surfaceResult(

@@ -16,7 +16,7 @@ export interface CellElevation {
 }
 
 /** Elevation per cell of the build's grid from the elevation model named in the parameters, or null. */
-export async function loadActiveElevation(params: BuildParameters & { elevationModelId?: string | null }): Promise<CellElevation | null> {
+export async function loadActiveElevation(params: BuildParameters): Promise<CellElevation | null> {
   const id = params.elevationModelId;
   if (!id) return null;
   const row = await getDb().select().from(elevationModels).where(eq(elevationModels.id, id)).get();

@@ -6,7 +6,7 @@ import { editionStationMeans, editions, reviewEvents, samples, stations, surface
 import { aggregateStationMeans } from "@/lib/isotopes";
 import { forgetSurfaceChunks, readSurfacePlaneData, writeSurfacePlanes, CHUNK } from "@/lib/surfaces/store";
 import type { EditionSummary, SurfaceGridSpec } from "../types";
-import { annualPrecipitation, buildPeriodSurfaces, makeGrid, type BuildParameters, type GridContext, type StationPeriodMean, type SurfaceResult } from "./compute";
+import { annualPrecipitation, assemblePeriod, krigePeriod, makeGrid, preparePeriod, type BuildParameters, type GridContext, type StationPeriodMean, type SurfaceResult } from "./compute";
 import { computeEditionDiff } from "./diff";
 import { loadActiveElevation } from "./elevation";
 
@@ -138,6 +138,8 @@ export async function ensureStationMeans(editionId: string, params: BuildParamet
       .update(editions)
       .set({
         inputsHash: inputs.inputsHash,
+        // built from any synthetic demo station → labelled synthetic demo data wherever shown
+        isDemo: inputs.stations.some((s) => s.isDemo),
         summary: { stations: { total: inputs.stations.length, samples: inputs.sampleCount } } as unknown as EditionSummary,
       })
       .where(eq(editions.id, editionId));
@@ -252,38 +254,72 @@ export async function runEditionBuild(editionId: string, hooks: BuildHooks = {})
 
   const done = await donePeriods(editionId);
   const pause = process.env.RAINPRINT_TEST === "1" ? (hooks.pauseAfterPeriodMs ?? 0) : 0;
-  for (let i = 0; i < BUILD_ORDER.length; i++) {
-    const period = BUILD_ORDER[i];
-    if (done.has(period)) continue;
-    const label = period === 0 ? "annual" : `month ${period}`;
-    const base = 0.05 + (0.9 * i) / BUILD_ORDER.length;
-    const span = 0.9 / BUILD_ORDER.length;
-    await report(`surfaces: ${label}`, base);
-    await deletePeriod(editionId, period);
-    const means = await periodMeans(editionId, period);
-    const results = await buildPeriodSurfaces(period, means, ctx, params, {
-      signal: hooks.signal,
-      threads: hooks.threads,
-      timings,
-      onProgress: hooks.progress ? (f) => void hooks.progress!({ stage: `surfaces: ${label}`, fraction: base + span * 0.8 * f }) : undefined,
-    });
-    if (period === 0) {
-      const months = [];
-      for (let m = 1; m <= 12; m++) {
-        const p = await readBack(editionId, m, ctx);
-        if (p) months.push(p);
-      }
-      if (months.length === 12) results.splice(results.length - 1, 0, annualPrecipitation(months, ctx, params));
-    }
-    hooks.signal?.throwIfAborted();
+  // Overlapped: while period p+1 is kriged on worker threads, this thread assembles period p and
+  // writes it (deflate + inserts). Writes stay in period order and the δ2H row stays last within its
+  // period, so "done" keeps its meaning for a resume. The kriging is aborted if anything fails.
+  const todo = BUILD_ORDER.map((period, i) => ({ period, i })).filter((x) => !done.has(x.period));
+  const local = new AbortController();
+  const onAbort = () => local.abort(hooks.signal?.reason);
+  hooks.signal?.addEventListener("abort", onAbort);
+  if (hooks.signal?.aborted) onAbort();
+  let pending: Promise<void> = Promise.resolve();
+  let inFlight: Promise<unknown> = Promise.resolve();
+  const writePeriod = async (period: number, results: SurfaceResult[]) => {
     const tw = performance.now();
-    // δ2H last: its row marks the period as complete
     for (const r of results) await writeSurface(editionId, ctx, r);
     timings.write = (timings.write ?? 0) + (performance.now() - tw) / 1000;
     await hooks.periodDone?.(period);
     if (pause) await new Promise((res) => setTimeout(res, pause));
-    hooks.signal?.throwIfAborted();
+  };
+  const label = (period: number) => (period === 0 ? "annual" : `month ${period}`);
+  const start = async (k: number) => {
+    const { period, i } = todo[k];
+    const base = 0.05 + (0.9 * i) / BUILD_ORDER.length;
+    const span = 0.9 / BUILD_ORDER.length;
+    await deletePeriod(editionId, period);
+    const prepared = preparePeriod(period, await periodMeans(editionId, period), params, timings);
+    const planes = krigePeriod(prepared, ctx, {
+      signal: local.signal,
+      threads: hooks.threads,
+      timings,
+      onProgress: hooks.progress ? (f) => void hooks.progress!({ stage: `surfaces: ${label(period)}`, fraction: base + span * 0.9 * f }) : undefined,
+    });
+    inFlight = planes.catch(() => {});
+    return { prepared, planes, base };
+  };
+  try {
+    let next = todo.length ? await start(0) : null;
+    for (let k = 0; k < todo.length; k++) {
+      const cur = next!;
+      const period = todo[k].period;
+      await report(`surfaces: ${label(period)}`, cur.base);
+      const planes = await cur.planes;
+      local.signal.throwIfAborted();
+      next = k + 1 < todo.length ? await start(k + 1) : null;
+      const results = assemblePeriod(cur.prepared, planes, ctx, params, timings);
+      if (period === 0) {
+        await pending; // the annual precipitation sums the stored months
+        const months = [];
+        for (let m = 1; m <= 12; m++) {
+          const p = await readBack(editionId, m, ctx);
+          if (p) months.push(p);
+        }
+        if (months.length === 12) results.splice(results.length - 1, 0, annualPrecipitation(months, ctx, params));
+      }
+      await pending;
+      local.signal.throwIfAborted();
+      pending = writePeriod(period, results);
+      pending.catch(() => {}); // awaited below; no unhandled rejection meanwhile
+    }
+    await pending;
+  } catch (e) {
+    local.abort(e);
+    await Promise.all([pending.catch(() => {}), inFlight]);
+    throw e;
+  } finally {
+    hooks.signal?.removeEventListener("abort", onAbort);
   }
+  hooks.signal?.throwIfAborted();
 
   await report("summary and comparison", 0.96);
   t = performance.now();

@@ -25,10 +25,10 @@ beforeAll(async () => {
 }, 120_000);
 
 /** Build an edition of the current accepted data on a small grid, in this process. */
-async function build(id: string, grid = { resolutionDeg: 2, extent: { west: -20, south: 30, east: 40, north: 60 } }) {
+async function build(id: string, grid = { resolutionDeg: 2, extent: { west: -20, south: 30, east: 40, north: 60 } }, threads = 1) {
   const params = defaultBuildParameters({ grid });
   await getDb().insert(editions).values({ id, status: "building", parameters: params, isDemo: true });
-  await runEditionBuild(id, { threads: 1 });
+  await runEditionBuild(id, { threads });
   return params;
 }
 
@@ -128,6 +128,15 @@ describe("rebuilding", () => {
     const hashes = await getDb().select({ h: editions.inputsHash }).from(editions).all();
     expect(new Set(hashes.map((r) => r.h)).size).toBe(1);
   }, 120_000);
+
+  it("planes do not depend on the number of kriging threads (1° global grid, 64,800 cells: worker threads)", async () => {
+    const g = { resolutionDeg: 1, extent: { west: -180, south: -90, east: 180, north: 90 } };
+    await build("test.threads.1", g, 1);
+    await build("test.threads.2", g, 2);
+    const [a, b] = await Promise.all([planeBytes("test.threads.1"), planeBytes("test.threads.2")]);
+    expect(a.size).toBe(52 * 3);
+    for (const [k, bytes] of a) expect(Buffer.compare(bytes, b.get(k)!), k).toBe(0);
+  }, 180_000);
 
   it("a new edition records its diff against the published one", async () => {
     expect(await publishEdition("test.same.1", null)).toBe(true);
