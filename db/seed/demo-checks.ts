@@ -4,28 +4,14 @@
 // batch was submitted (so results are reproducible).
 
 import { fitWaterLine, lcExcess, MIN_LINE_SAMPLES, type WaterLineFit } from "../../lib/isotopes";
-import { runChecks, worstSeverity, type QcContext, type QcSample } from "../../lib/qc";
+import { qcSampleOf, runChecks, worstSeverity, type QcContext, type QcSample } from "../../lib/qc";
 import type { DemoSample, DemoScenario } from "../../lib/demo";
 import type { SeedCheckSample } from "./demo-data";
 
 /** Method of the station water line used for line-offset and lc-excess: ordinary least squares [trade]. */
 export const DEMO_LINE_METHOD = "ols" as const;
 
-const toQc = (s: DemoSample): QcSample => ({
-  ref: s.key,
-  stationId: s.stationCode,
-  startDate: s.startDate,
-  endDate: s.endDate,
-  amountMm: s.amountMm,
-  d18O: s.d18O,
-  d2H: s.d2H,
-  d18OSd: s.d18OSd,
-  d2HSd: s.d2HSd,
-  method: s.method,
-  laboratory: s.laboratory,
-  scale: s.scale,
-  referenceWaters: s.referenceWaters,
-});
+const toQc = (s: DemoSample): QcSample => qcSampleOf(s, s.stationCode, s.key);
 
 /**
  * A checker for seedDemoData: lib/qc's runChecks with the intake's context, and lc-excess

@@ -3,7 +3,7 @@ import { and, inArray } from "drizzle-orm";
 import { getDb } from "@/db";
 import { samples, type Severity } from "@/db/schema";
 import { dExcess, fitWaterLine, lcExcess, MIN_LINE_SAMPLES, parseIsoDay, type WaterLineFit } from "@/lib/isotopes";
-import { runChecks, worstSeverity, type CheckResult, type QcContext, type QcHistorySample, type QcSample, type QcStoredPeriod } from "@/lib/qc";
+import { qcSampleOf, runChecks, worstSeverity, type CheckResult, type QcContext, type QcHistorySample, type QcSample, type QcStoredPeriod } from "@/lib/qc";
 import type { ParsedSample } from "./schemas";
 
 // The context lib/qc needs for a station, read from the database: its accepted history,
@@ -72,7 +72,7 @@ export function checkSamples(
 ): CheckedSample[] {
   const keep = opts.keepObjects ?? true;
   const out: CheckedSample[] = new Array(items.length);
-  const qc: QcSample[] = items.map((it) => toQc(it.sample, it.stationId, it.ref));
+  const qc: QcSample[] = items.map((it) => qcSampleOf(it.sample, it.stationId, it.ref));
   const relevant = relevantOthers(qc);
   const bases = new Map<string, Omit<QcContext, "otherBatchSamples">>();
   for (let i = 0; i < items.length; i++) {
@@ -200,22 +200,5 @@ export function relevantOthers(list: readonly QcSample[]): number[][] {
   return out.map((x) => [...x].sort((a, b) => a - b));
 }
 
-function toQc(s: ParsedSample, stationId: string, ref: string): QcSample {
-  return {
-    ref,
-    stationId,
-    startDate: s.startDate,
-    endDate: s.endDate,
-    amountMm: s.amountMm,
-    d18O: s.d18O,
-    d2H: s.d2H,
-    d18OSd: s.d18OSd,
-    d2HSd: s.d2HSd,
-    method: s.method,
-    laboratory: s.laboratory,
-    scale: s.scale,
-    referenceWaters: s.referenceWaters,
-  };
-}
 
 const round6 = (x: number) => Math.round(x * 1e6) / 1e6;

@@ -11,7 +11,7 @@ export { CHECK_THRESHOLDS } from "./thresholds";
 export type { Threshold, ThresholdKey } from "./thresholds";
 export { CHECK_CATALOGUE } from "./catalogue";
 export type { CheckInfo } from "./catalogue";
-export { SEVERITIES, CHECK_CODES } from "./types";
+export { SEVERITIES, CHECK_CODES, qcSampleOf } from "./types";
 export type {
   CheckCode,
   CheckResult,

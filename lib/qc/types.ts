@@ -105,3 +105,22 @@ export interface QcContext {
   /** Predicted values at the station (e.g. from the current edition). */
   predicted?: { d18O?: QcPrediction | null; d2H?: QcPrediction | null } | null;
 }
+
+/** The submitted fields the checks read, picked from any sample-shaped record (a parsed row, a stored or a demo sample). */
+export function qcSampleOf(s: Omit<QcSample, "ref" | "stationId">, stationId: string | null, ref: string | null): QcSample {
+  return {
+    ref,
+    stationId,
+    startDate: s.startDate,
+    endDate: s.endDate,
+    amountMm: s.amountMm,
+    d18O: s.d18O,
+    d2H: s.d2H,
+    d18OSd: s.d18OSd,
+    d2HSd: s.d2HSd,
+    method: s.method,
+    laboratory: s.laboratory,
+    scale: s.scale,
+    referenceWaters: s.referenceWaters,
+  };
+}
