@@ -1,25 +1,10 @@
 "use client";
 
+import type { MapLegend as MapLegendAnswer } from "@/lib/map/data";
 import { num } from "./format";
 
-export interface LegendData {
-  layer: string;
-  variable: string;
-  kind: "value" | "sd";
-  periodLabel: string;
-  title: string;
-  units: "‰" | "mm";
-  ramp: { id: string; name: string; kind: "sequential" | "diverging" };
-  min: number;
-  max: number;
-  centre: number | null;
-  ticks: number[];
-  stops: string[];
-  extrapolation: { distanceKm: number | null; veil: number; ink: string; spacing: number };
-  seaLevelEquivalent: boolean;
-  note: string | null;
-  synthetic: boolean;
-}
+/** The legend route's answer (GET /api/map/legend); a type-only import, nothing server-side reaches the client. */
+export type LegendData = MapLegendAnswer;
 
 /** The always-visible legend: ramp bar with ticks and units, the extrapolation swatch, the sea-level note. */
 export function MapLegend({ legend, loading }: { legend: LegendData | null; loading: boolean }) {

@@ -2,31 +2,12 @@
 
 import Link from "next/link";
 import { Cautions } from "@/components/cautions";
+import type { MapReadout, ReadoutValue as MapReadoutValue } from "@/lib/map/data";
 import { decimalsFor, num, unitsText } from "./format";
 
-export interface ReadoutValue {
-  value: number;
-  sd: number;
-  lower: number;
-  upper: number;
-  units: "‰" | "mm";
-  extrapolation: boolean;
-}
-
-export interface ReadoutData {
-  edition: string;
-  period: number;
-  periodLabel: string;
-  lat: number;
-  lon: number;
-  cell: { lat: number; lon: number } | null;
-  values: Record<string, ReadoutValue | null>;
-  extrapolation: boolean;
-  extrapolationDistanceKm: number | null;
-  seaLevelEquivalent: boolean;
-  notes: string[];
-  synthetic: boolean;
-}
+/** The readout route's answer (GET /api/map/readout); type-only imports, nothing server-side reaches the client. */
+export type ReadoutValue = MapReadoutValue;
+export type ReadoutData = MapReadout;
 
 const ROWS = [
   { key: "d18O", label: "δ18O" },
@@ -57,7 +38,7 @@ export function ReadoutPanel({ readout, variable, error, loading }: { readout: R
         Click anywhere on the map (or enter a latitude and longitude below) to read the predicted values there, with their 95% intervals.
       </p>
     );
-  const chosen = readout.values[variable];
+  const chosen = (readout.values as Record<string, ReadoutValue | null>)[variable] ?? null;
   const lat = readout.lat.toFixed(3);
   const lon = readout.lon.toFixed(3);
   return (
