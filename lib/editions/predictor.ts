@@ -328,9 +328,10 @@ async function build(e: EditionRow): Promise<Predictor> {
   const d2HCorrelation = new Array<number>(13).fill(0);
   for (const r of rows) {
     const stats = r.stats as SurfaceStats | null;
-    if (r.variable === "d2H" && stats?.note) {
-      if (r.period === 0) d2HNote = stats.note;
-      d2HCorrelation[r.period] = statedCorrelation(stats.note);
+    if (r.variable === "d2H" && stats) {
+      if (r.period === 0 && stats.note) d2HNote = stats.note;
+      // the exact ρ the build used; editions stored before it was recorded state it (rounded) in the note
+      d2HCorrelation[r.period] = typeof stats.d2HCorrelation === "number" ? stats.d2HCorrelation : statedCorrelation(stats.note ?? "");
     }
     const rec = r.model as SurfaceModelRecord | null;
     if (!rec) continue; // derived surfaces (δ2H, annual precipitation)

@@ -76,6 +76,8 @@ export interface SurfaceStats {
   extrapolation: { distanceKm: number; cells: number; fraction: number };
   /** Statement of a derivation or assumption, shown with the surface and in downloads. */
   note?: string;
+  /** derived-d2H only: the correlation ρ of the d-excess and δ18O errors used in the variance (stated in `note`). */
+  d2HCorrelation?: number;
 }
 
 /** One term of the trend. */

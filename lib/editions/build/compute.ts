@@ -453,6 +453,7 @@ export function assemblePeriod(
         stations: { used: usedD2H, excludedCoverage: excludedIso },
         seaLevelEquivalent: ctx.elevation === null,
         extrapolation: extrapolationStats(extra, ctx, params.extrapolationKm),
+        d2HCorrelation: rho,
         note:
           `δ2H = d-excess + 8·δ18O (definition of d, Dansgaard 1964). Variance = Var(d) + 64·Var(δ18O) + 16·ρ·σd·σ18O ` +
           `(propagation with correlated inputs, JCGM 100:2008 §5.2.2 [mem]) with ρ = ${rho.toFixed(4)}, ` +

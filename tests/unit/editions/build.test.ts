@@ -8,7 +8,8 @@ import { defaultBuildParameters } from "@/lib/editions/build/compute";
 import { periodMeans, publishEdition, runEditionBuild } from "@/lib/editions/build/pipeline";
 import { fitTrend } from "@/lib/editions/build/trend";
 import type { SurfaceModelRecord } from "@/lib/editions/prediction";
-import type { EditionDiff, SurfaceCrossValidation, SurfaceGridSpec, SurfaceTrend, SurfaceVariogram } from "@/lib/editions/types";
+import { statedCorrelation } from "@/lib/editions/predictor";
+import type { EditionDiff, SurfaceCrossValidation, SurfaceGridSpec, SurfaceStats, SurfaceTrend, SurfaceVariogram } from "@/lib/editions/types";
 import { readSurfacePlaneData } from "@/lib/surfaces/store";
 import { readSurfacePlane } from "@/lib/downloads/editions";
 import { freshDb } from "../helpers/db";
@@ -114,6 +115,21 @@ describe("the seeded demo edition", () => {
       expect(h[c]).toBeCloseTo(d[c] + 8 * o[c], 3);
     }
     expect(n).toBeGreaterThan(100);
+  });
+
+  it("each δ2H surface records the ρ its variance used, as a number and in its note (read by the site predictor)", async () => {
+    const rows = await getDb()
+      .select({ stats: surfaces.stats })
+      .from(surfaces)
+      .where(and(eq(surfaces.editionId, seeded), eq(surfaces.variable, "d2H")))
+      .all();
+    expect(rows).toHaveLength(13);
+    for (const r of rows) {
+      const stats = r.stats as SurfaceStats;
+      expect(stats.d2HCorrelation).toBeGreaterThanOrEqual(-1);
+      expect(stats.d2HCorrelation).toBeLessThanOrEqual(1);
+      expect(statedCorrelation(stats.note!)).toBeCloseTo(stats.d2HCorrelation!, 4);
+    }
   });
 });
 
