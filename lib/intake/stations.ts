@@ -15,17 +15,38 @@ export const isModerator = (v: Viewer) => v.role === "moderator" || v.role === "
 
 export type StationRow = typeof stations.$inferSelect;
 
+/** The columns an operator enters and may correct (everything but the code). */
+function editableFields(input: StationInput) {
+  const { name, lat, lon, elevationM, collectorType, samplingInterval, operatingOrg, startDate, notes } = input;
+  return { name, lat, lon, elevationM, collectorType, samplingInterval, operatingOrg, startDate, notes };
+}
+
+/**
+ * Stations (not rejected) in a ±0.25° latitude box around the input and the matching longitude span, for the
+ * entry checks (which measure the exact distances); the longitude bound is dropped where the box would cross ±180°.
+ */
+async function nearbyStations(db: Db, input: StationInput, excludeId: string | null) {
+  const dLat = 0.25;
+  const dLon = 0.25 / Math.max(0.05, Math.cos((input.lat * Math.PI) / 180));
+  const wraps = input.lon - dLon < -180 || input.lon + dLon > 180;
+  const rows = await db
+    .select({ id: stations.id, code: stations.code, name: stations.name, lat: stations.lat, lon: stations.lon, elevationM: stations.elevationM })
+    .from(stations)
+    .where(
+      and(
+        between(stations.lat, input.lat - dLat, input.lat + dLat),
+        wraps ? undefined : between(stations.lon, input.lon - dLon, input.lon + dLon),
+        ne(stations.status, "rejected"),
+      ),
+    )
+    .all();
+  return excludeId ? rows.filter((r) => r.id !== excludeId) : rows;
+}
+
 /** Register a station for the viewer: entry checks, one row (pending) and its audit event in one transaction. */
 export async function registerStation(viewer: Viewer, input: StationInput): Promise<{ station: StationRow; checks: StationCheck[] }> {
   const db = getDb();
-  const dLat = 0.25;
-  const dLon = Math.min(180, 0.25 / Math.max(0.05, Math.cos((input.lat * Math.PI) / 180)));
-  const nearby = await db
-    .select({ code: stations.code, name: stations.name, lat: stations.lat, lon: stations.lon, elevationM: stations.elevationM })
-    .from(stations)
-    .where(and(between(stations.lat, input.lat - dLat, input.lat + dLat), between(stations.lon, input.lon - dLon, input.lon + dLon), ne(stations.status, "rejected")))
-    .all();
-  const checks = stationEntryChecks(input, nearby);
+  const checks = stationEntryChecks(input, await nearbyStations(db, input, null));
   return db.transaction(async (tx) => {
     const taken = await tx.select({ id: stations.id }).from(stations).where(eq(stations.code, input.code)).get();
     if (taken) throw errors.invalid(`A station with the code ${input.code} is already registered. Choose another code.`, { code: [`${input.code} is already taken.`] });
@@ -33,15 +54,7 @@ export async function registerStation(viewer: Viewer, input: StationInput): Prom
       .insert(stations)
       .values({
         code: input.code,
-        name: input.name,
-        lat: input.lat,
-        lon: input.lon,
-        elevationM: input.elevationM,
-        collectorType: input.collectorType,
-        samplingInterval: input.samplingInterval,
-        operatingOrg: input.operatingOrg,
-        startDate: input.startDate,
-        notes: input.notes,
+        ...editableFields(input),
         status: "pending",
         entryChecks: checks,
         ownerId: viewer.id,
@@ -70,27 +83,12 @@ export async function correctStation(viewer: Viewer, code: string, input: Statio
   if (!before || before.ownerId !== viewer.id) throw errors.notFound(`You have no station with the code ${code}.`);
   if (before.status !== "returned") throw errors.conflict(`Station ${before.code} is ${before.status}; only a station returned for changes can be corrected.`);
   if (input.code !== before.code) throw errors.invalid("The station code cannot be changed.", { code: ["The station code cannot be changed."] });
-  const nearby = (
-    await db
-      .select({ id: stations.id, code: stations.code, name: stations.name, lat: stations.lat, lon: stations.lon, elevationM: stations.elevationM })
-      .from(stations)
-      .where(and(between(stations.lat, input.lat - 0.25, input.lat + 0.25), ne(stations.status, "rejected")))
-      .all()
-  ).filter((n) => n.id !== before.id);
-  const checks = stationEntryChecks(input, nearby);
+  const checks = stationEntryChecks(input, await nearbyStations(db, input, before.id));
   return db.transaction(async (tx) => {
     const after = await tx
       .update(stations)
       .set({
-        name: input.name,
-        lat: input.lat,
-        lon: input.lon,
-        elevationM: input.elevationM,
-        collectorType: input.collectorType,
-        samplingInterval: input.samplingInterval,
-        operatingOrg: input.operatingOrg,
-        startDate: input.startDate,
-        notes: input.notes,
+        ...editableFields(input),
         entryChecks: checks,
         status: "pending",
         rowVersion: sql`${stations.rowVersion} + 1`,

@@ -69,6 +69,20 @@ describe("station entry", () => {
     expect(near[0].values.distanceM).toBeLessThan(550);
     expect(stationEntryChecks({ lat: 47.37, lon: 8.54, elevationM: 7000 }, []).map((c) => c.code)).toEqual(["elevation"]);
   });
+
+  it("registration finds a registered neighbour within 1 km, also across the ±180° meridian", async () => {
+    const reg = (code: string, lat: string, lon: string) =>
+      registerStation(contributor, stationInput.parse({ code, name: code, lat, lon, elevationM: "10", collectorType: "bulk-oil", samplingInterval: "monthly" }));
+    await reg("NEAR-A", "-16.8", "179.999");
+    // 0.002° of longitude at 16.8° S ≈ 0.21 km (spherical estimate [mem]), on the other side of the meridian
+    const across = await reg("NEAR-B", "-16.8", "-179.999");
+    expect(across.checks.map((c) => c.code)).toContain("nearby-station");
+    await reg("NEAR-C", "51.5", "-0.1");
+    const beside = await reg("NEAR-D", "51.5045", "-0.1");
+    expect(beside.checks.map((c) => c.code)).toContain("nearby-station");
+    const far = await reg("NEAR-E", "51.5", "0.2");
+    expect(far.checks.map((c) => c.code)).not.toContain("nearby-station");
+  });
 });
 
 describe("stations, batches and the review desk", () => {
