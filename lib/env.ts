@@ -21,6 +21,9 @@ const schema = z.object({
   // API usage counters are kept in memory and written to api_usage at most this often
   // (milliseconds); 0 writes every request through. See lib/api/usage.ts.
   API_USAGE_FLUSH_MS: z.coerce.number().int().min(0).max(60_000).default(500),
+  // Worker threads that answer site lookups (lib/editions/predict-pool.ts); unset = one per
+  // core, at most 4; 0 = answer on the request's own thread.
+  PREDICT_THREADS: z.coerce.number().int().min(0).max(16).optional(),
   // Set by the test runner only: enables test-only helpers on stand-ins.
   RAINPRINT_TEST: z.enum(["0", "1"]).default("0"),
 });

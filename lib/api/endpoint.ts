@@ -91,8 +91,13 @@ export type EndpointSpec<P extends z.ZodType | undefined, Q extends z.ZodType | 
    * exists, the batch fits the caller's plan): throw an AppError to refuse the request.
    */
   beforeQuota?: (ctx: EndpointContext<P, Q, B>) => Promise<void>;
-  handler: (ctx: EndpointContext<P, Q, B>) => Promise<z.output<R> | Response>;
+  handler: (ctx: EndpointContext<P, Q, B>) => Promise<z.output<R> | JsonText | Response>;
 };
+
+/** An answer already written as JSON text (e.g. by a prediction worker thread); checked against the response schema under test like any other. */
+export class JsonText {
+  constructor(readonly text: string) {}
+}
 
 /** An endpoint with its types erased, as the registry, the document and the page see it. */
 export type ApiEndpoint = {
@@ -250,6 +255,10 @@ export function v1Handler(ep: ApiEndpoint): V1RouteHandler {
       if (out instanceof Response) {
         for (const [k, v] of Object.entries(headers)) if (!out.headers.has(k)) out.headers.set(k, v);
         return out;
+      }
+      if (out instanceof JsonText) {
+        if (env().RAINPRINT_TEST === "1") ep.response.parse(JSON.parse(out.text));
+        return new Response(out.text, { headers: { "Content-Type": "application/json", ...headers } });
       }
       // Under test every answer is checked against its documented schema.
       if (env().RAINPRINT_TEST === "1") ep.response.parse(out);

@@ -8,3 +8,6 @@ if (!process.env.RAINPRINT_KEEP_DB_URL) {
   process.env.DATABASE_URL = `file:${path.join(dir, "test.db")}`;
 }
 process.env.RAINPRINT_TEST = "1";
+// Site lookups inline on the test's own thread (threads take a second to start in every file);
+// tests/unit/editions/predict-pool.test.ts starts real threads and checks they answer the same.
+process.env.PREDICT_THREADS ??= "0";

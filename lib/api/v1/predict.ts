@@ -1,15 +1,14 @@
 import "server-only";
 import { z } from "zod";
 import { PLAN_CATALOGUE, lowestPlanAllowing, planLimits } from "@/lib/billing/plans";
-import { loadEditionPredictor, type LoadedEditionPredictor } from "@/lib/editions/predictor";
-import type { Estimate, SitePrediction } from "@/lib/editions/prediction";
+import { predictPool } from "@/lib/editions/predict-pool";
+import { loadEditionPredictor } from "@/lib/editions/predictor";
 import { AppError } from "@/lib/errors";
-import { citationLine } from "@/lib/lookup/citation";
 import { CoordinateError, parseCoordinate, parseElevation } from "@/lib/lookup/coordinates";
 import { BATCH_STATIONS, batchItemJson, writeBatchItem } from "@/lib/lookup/batch-json";
+import { apiPrediction } from "@/lib/lookup/prediction-answer";
 import { describeRowErrors, parseSitesCsv } from "@/lib/lookup/sites-csv";
-import { defineEndpoint } from "../endpoint";
-import { SYNTHETIC_NOTICE } from "./common";
+import { defineEndpoint, JsonText } from "../endpoint";
 
 // Site lookups: predicted monthly and annual δ18O, δ2H and d-excess with 95%
 // intervals at one site (GET) or many (POST, JSON or CSV), computed exactly
@@ -158,7 +157,7 @@ export const sitePredictionSchema = z
   })
   .meta({ id: "SitePrediction" });
 
-export { BATCH_STATIONS, batchItemJson, writeBatchItem };
+export { apiPrediction, BATCH_STATIONS, batchItemJson, writeBatchItem };
 
 export const batchSitePredictionSchema = sitePredictionSchema
   .omit({ citation: true, synthetic: true, notice: true })
@@ -174,45 +173,6 @@ export const batchResponse = z
     results: z.array(batchSitePredictionSchema),
   })
   .meta({ id: "SitePredictionBatch" });
-
-/** x rounded to `d` decimals, as a number (toFixed's decimal rounding; the JSON writer below uses the same). */
-const fx = (x: number, d: number) => Number(x.toFixed(d));
-const r3 = (x: number) => fx(x, 3);
-const est = (e: Estimate) => ({ value: r3(e.value), sd: r3(e.sd), lower95: r3(e.lower95), upper95: r3(e.upper95) });
-const period = (p: SitePrediction["annual"]) => ({ d18O: est(p.d18O), d2H: est(p.d2H), dExcess: est(p.dExcess), precipMm: p.precipMm ? est(p.precipMm) : null });
-const orNull = (x: number, digits: number) => (Number.isFinite(x) ? fx(x, digits) : null);
-
-/** A prediction as the API answers it (‰ to 0.001, km to 0.1, weights to 0.0001). */
-export function apiPrediction(p: SitePrediction, predictor: LoadedEditionPredictor, id?: string): z.output<typeof sitePredictionSchema> {
-  const e = predictor.edition;
-  return {
-    edition: p.edition,
-    citation: citationLine(e, p.site),
-    site: {
-      ...(id === undefined ? {} : { id }),
-      lat: p.site.lat,
-      lon: p.site.lon,
-      elevationM: p.site.elevationM,
-      seaLevelEquivalent: p.site.elevationM === null,
-      extrapolation: p.site.extrapolation,
-      nearestStationKm: fx(p.site.nearestStationKm, 1),
-      extrapolationKm: p.site.extrapolationKm,
-    },
-    annual: period(p.annual),
-    monthly: p.monthly.map((m) => ({ month: m.month, ...period(m) })),
-    waterLine: {
-      slope: orNull(p.waterLine.slope, 4),
-      intercept: orNull(p.waterLine.intercept, 3),
-      slopeSE: orNull(p.waterLine.slopeSE, 4),
-      interceptSE: orNull(p.waterLine.interceptSE, 3),
-      r2: orNull(p.waterLine.r2, 4),
-      method: p.waterLine.method,
-    },
-    stations: p.stations.map((s) => ({ code: s.code, name: s.name, distanceKm: fx(s.distanceKm, 1), weight: fx(s.weight, 4) })),
-    synthetic: e.isDemo,
-    ...(e.isDemo ? { notice: SYNTHETIC_NOTICE } : {}),
-  };
-}
 
 const DESCRIPTION_COMMON =
   "Values are computed exactly at the site from the edition's fitted models (trend in |latitude|, latitude² and elevation plus the kriged residual), not read from the map grid. " +
@@ -239,9 +199,9 @@ export const predictSite = defineEndpoint({
     await loadEditionPredictor(query.edition); // an unknown edition is a 404 that counts nothing
   },
   async handler({ query }) {
+    // computed on a prediction worker thread (lib/editions/predict-pool.ts); same text as apiPrediction
     const predictor = await loadEditionPredictor(query.edition);
-    const p = predictor.predict({ lat: query.lat, lon: query.lon, elevationM: query.elevation ?? null });
-    return apiPrediction(p, predictor);
+    return new JsonText(await predictPool().siteText(predictor, { lat: query.lat, lon: query.lon, elevationM: query.elevation ?? null }));
   },
 });
 
@@ -284,55 +244,15 @@ export const predictBatch = defineEndpoint({
     }
     await loadEditionPredictor(body.edition);
   },
-  async handler({ body }) {
+  async handler({ req, body }) {
+    // chunks of sites answered in parallel on the prediction worker threads, streamed in the order sent
     const predictor = await loadEditionPredictor(body.edition);
-    const preds = predictor.predictMany(body.sites.map((s) => ({ lat: s.lat, lon: s.lon, elevationM: s.elevation ?? null })));
+    const sites = body.sites.map((s) => ({ lat: s.lat, lon: s.lon, elevationM: s.elevation ?? null }));
     const ids = body.sites.map((s, i) => String(s.id ?? i + 1));
-    return batchJsonResponse(predictor, preds, ids);
+    const stream = await predictPool().batchBody(predictor, sites, ids, req.signal);
+    // no-transform: the app server would gzip the answer (~46 MB for 10,000 sites) at zlib's default
+    // level, which costs more CPU than predicting it; a proxy in front may compress it instead.
+    return new Response(stream, { headers: { "Content-Type": "application/json; charset=utf-8", "Cache-Control": "no-store, no-transform" } });
   },
 });
 
-// ---- the batch answer, written as JSON text in chunks ----
-// A 10,000-site answer is ~25 MB of JSON; building it as objects and stringifying them costs about as
-// much again as the predictions. It is written directly (same text JSON.stringify would give for the
-// batch shape, tested) and streamed in chunks, yielding between them so other requests get a turn.
-
-const CHUNK = 500;
-
-function batchJsonResponse(predictor: LoadedEditionPredictor, preds: SitePrediction[], ids: string[]): Response {
-  const e = predictor.edition;
-  const head = {
-    edition: predictor.editionId,
-    citation: `Rainprint (${e.publishedAt ? e.publishedAt.getUTCFullYear() : "n.d."}). Predicted precipitation δ18O, δ2H and d-excess at the sites listed; edition ${predictor.editionId}${
-      e.publishedAt ? ` (published ${e.publishedAt.toISOString().slice(0, 10)})` : ""
-    }, regression-kriging with 95% intervals. Licence CC BY 4.0.${e.isDemo ? " Synthetic demo data." : ""}`,
-    count: preds.length,
-    synthetic: e.isDemo,
-    ...(e.isDemo ? { notice: SYNTHETIC_NOTICE } : {}),
-  };
-  const enc = new TextEncoder();
-  const names = new Map<string, string>();
-  let i = 0;
-  const stream = new ReadableStream<Uint8Array>({
-    start(controller) {
-      controller.enqueue(enc.encode(`${JSON.stringify(head).slice(0, -1)},"results":[`));
-    },
-    async pull(controller) {
-      const end = Math.min(preds.length, i + CHUNK);
-      const out: string[] = [];
-      for (; i < end; i++) {
-        if (i) out.push(",");
-        writeBatchItem(out, preds[i], ids[i], names);
-      }
-      const text = out.join("");
-      if (i >= preds.length) {
-        controller.enqueue(enc.encode(`${text}]}`));
-        controller.close();
-        return;
-      }
-      controller.enqueue(enc.encode(text));
-      await new Promise((r) => setTimeout(r, 0));
-    },
-  });
-  return new Response(stream, { headers: { "Content-Type": "application/json; charset=utf-8" } });
-}

@@ -1,0 +1,24 @@
+import type { SiteInput } from "./prediction";
+import type { EditionSource } from "./site-model";
+
+// Messages between lib/editions/predict-pool.ts and its worker threads (lib/editions/predict-worker.ts).
+
+/** A task; `source` comes with a worker's first task for an edition build (`token`). */
+export type PoolTask =
+  | { id: number; kind: "site"; token: string; source?: EditionSource; site: SiteInput }
+  | {
+      id: number;
+      kind: "batch";
+      token: string;
+      source?: EditionSource;
+      /** lat, lon, elevation (NaN = none) per site. */
+      sites: Float64Array;
+      ids: string[];
+    };
+
+/** A worker's answer: JSON text of a site, a batch chunk's results (lib/lookup/prediction-answer.ts BatchItems), or what went wrong (`range`: a site was out of range). */
+export type PoolReply =
+  | { ready: true }
+  | { id: number; ok: true; text: string }
+  | { id: number; ok: true; bytes: Uint8Array; offsets: Uint32Array }
+  | { id: number; ok: false; message: string; range: boolean };

@@ -1,0 +1,57 @@
+// A prediction worker thread (started by lib/editions/predict-pool.ts through
+// lib/geostats/worker-bootstrap.cjs): builds an edition's site predictor from the EditionSource
+// the pool sends with its first task for that edition, then answers site lookups and batch
+// chunks as JSON text — the same text the main thread writes inline (lib/lookup/prediction-answer.ts).
+import { parentPort } from "node:worker_threads";
+import { batchItems, siteAnswerText } from "../lookup/prediction-answer";
+import type { SiteInput } from "./prediction";
+import type { PoolReply, PoolTask } from "./predict-protocol";
+import { type LoadedEditionPredictor, predictorFromSource } from "./site-model";
+
+/** Predictors kept per edition build token (most recently used last). */
+const KEEP = 4;
+const predictors = new Map<string, { predictor: LoadedEditionPredictor; names: Map<string, string> }>();
+
+function predictorFor(task: PoolTask): { predictor: LoadedEditionPredictor; names: Map<string, string> } {
+  let hit = predictors.get(task.token);
+  if (task.source && !hit) {
+    hit = { predictor: predictorFromSource(task.source), names: new Map() };
+  }
+  if (!hit) throw new Error(`edition build ${task.token} was never sent to this worker`);
+  predictors.delete(task.token);
+  predictors.set(task.token, hit);
+  while (predictors.size > KEEP) predictors.delete(predictors.keys().next().value as string);
+  return hit;
+}
+
+function sitesOf(packed: Float64Array): SiteInput[] {
+  const n = packed.length / 3;
+  const sites: SiteInput[] = new Array(n);
+  for (let i = 0; i < n; i++) {
+    const e = packed[3 * i + 2];
+    sites[i] = { lat: packed[3 * i], lon: packed[3 * i + 1], elevationM: Number.isNaN(e) ? null : e };
+  }
+  return sites;
+}
+
+const port = parentPort;
+if (!port) throw new Error("predict-worker.ts runs as a worker thread");
+
+port.on("message", (task: PoolTask) => {
+  try {
+    const { predictor, names } = predictorFor(task);
+    if (task.kind === "site") {
+      const reply: PoolReply = { id: task.id, ok: true, text: siteAnswerText(predictor, task.site) };
+      port.postMessage(reply);
+    } else {
+      const { bytes, offsets } = batchItems(predictor, sitesOf(task.sites), task.ids, names);
+      const reply: PoolReply = { id: task.id, ok: true, bytes, offsets };
+      port.postMessage(reply, [bytes.buffer as ArrayBuffer, offsets.buffer as ArrayBuffer]);
+    }
+  } catch (e) {
+    const reply: PoolReply = { id: task.id, ok: false, message: e instanceof Error ? e.message : String(e), range: e instanceof RangeError };
+    port.postMessage(reply);
+  }
+});
+
+port.postMessage({ ready: true } satisfies PoolReply);

@@ -1,0 +1,93 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { BATCH_CHUNK, PredictPool } from "@/lib/editions/predict-pool";
+import { forgetEditionPredictors, loadEditionPredictor, type SourcedPredictor } from "@/lib/editions/predictor";
+import type { SiteInput } from "@/lib/editions/prediction";
+import { apiPrediction } from "@/lib/lookup/prediction-answer";
+import { batchItemJson } from "@/lib/lookup/batch-json";
+import { freshDb } from "../helpers/db";
+import { insertTestEdition, insertTestStations } from "../helpers/edition";
+import { testStations } from "../../shared/test-edition";
+
+// The prediction worker threads answer exactly what the request thread would: the same JSON
+// text for a site, and for a batch the results in the order sent although the threads work
+// through the sites in spatial order, chunk by chunk. A dead thread's work is answered inline.
+// Synthetic test data (tests/shared/test-edition.ts).
+
+const STATIONS = testStations("RP-POOL", 40, { lat: [-30, 60], lon: [-120, 140] }, 5);
+let predictor: SourcedPredictor;
+let pool: PredictPool;
+
+/** Reproducible scattered sites (LCG, Numerical Recipes [trade]); every 7th without elevation. */
+function sites(n: number, seed = 11): SiteInput[] {
+  let s = seed;
+  const r = () => ((s = (Math.imul(s, 1664525) + 1013904223) >>> 0) / 4294967296);
+  return Array.from({ length: n }, (_, i) => ({ lat: -50 + 110 * r(), lon: -180 + 360 * r(), elevationM: i % 7 === 0 ? null : Math.round(3000 * r()) }));
+}
+
+/** The batch answer built the plain way: every site predicted in the order sent, written one by one. */
+function reference(list: SiteInput[], ids: string[]): unknown {
+  const preds = predictor.predictMany(list);
+  return preds.map((p, i) => JSON.parse(batchItemJson(p, ids[i])));
+}
+
+beforeAll(async () => {
+  await freshDb();
+  await insertTestStations(STATIONS);
+  await insertTestEdition({ id: "2026.06.1", stations: STATIONS, maxNeighbors: 12 });
+  forgetEditionPredictors();
+  predictor = await loadEditionPredictor("2026.06.1");
+  pool = new PredictPool(2);
+  await pool.whenReady();
+}, 120_000);
+
+afterAll(async () => {
+  await pool?.close();
+});
+
+describe("prediction worker threads", () => {
+  it("answer a site with the same JSON text as the request thread", async () => {
+    for (const site of sites(25, 3)) {
+      const text = await pool.siteText(predictor, site);
+      expect(text).toBe(JSON.stringify(apiPrediction(predictor.predict(site), predictor)));
+    }
+  });
+
+  it("answer a batch of several chunks with every result in the order sent, equal to the plain computation", async () => {
+    const list = sites(2 * BATCH_CHUNK + 137);
+    const ids = list.map((_, i) => `site-${i}`);
+    const stream = await pool.batchBody(predictor, list, ids);
+    const answer = JSON.parse(await new Response(stream).text()) as { edition: string; count: number; results: { site: { id: string } }[] };
+    expect(answer.edition).toBe("2026.06.1");
+    expect(answer.count).toBe(list.length);
+    expect(answer.results.map((r) => r.site.id)).toEqual(ids);
+    // kriging in spatial order reuses factorised systems: equal to the plain order to the written precision
+    expect(answer.results).toEqual(reference(list, ids));
+  });
+
+  it("answer inline, the same, when there are no threads", async () => {
+    const inline = new PredictPool(0);
+    const list = sites(BATCH_CHUNK + 3, 5);
+    const ids = list.map((_, i) => String(i + 1));
+    const [viaThreads, viaInline] = await Promise.all([pool.batchBody(predictor, list, ids), inline.batchBody(predictor, list, ids)]);
+    expect(await new Response(viaInline).text()).toBe(await new Response(viaThreads).text());
+    expect(await inline.siteText(predictor, list[0])).toBe(await pool.siteText(predictor, list[0]));
+  });
+
+  it("finish a batch when a thread dies in the middle of it (its chunks are answered inline)", async () => {
+    const fragile = new PredictPool(2);
+    await fragile.whenReady();
+    const list = sites(4 * BATCH_CHUNK, 9);
+    const ids = list.map((_, i) => `s${i}`);
+    const answer = fragile.batchBody(predictor, list, ids);
+    await fragile.terminateOneForTests();
+    const parsed = JSON.parse(await new Response(await answer).text()) as { results: unknown[] };
+    expect(parsed.results).toEqual(reference(list, ids));
+    await fragile.close();
+  }, 60_000);
+
+  it("stop handing out chunks when the request is aborted", async () => {
+    const controller = new AbortController();
+    controller.abort();
+    await expect(pool.batchBody(predictor, sites(BATCH_CHUNK + 1), Array.from({ length: BATCH_CHUNK + 1 }, String), controller.signal)).rejects.toThrow();
+  });
+});
