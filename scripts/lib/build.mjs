@@ -4,7 +4,7 @@ import { existsSync, readdirSync, readFileSync, statSync, writeFileSync } from "
 import path from "node:path";
 import { log, root, run } from "./deps.mjs";
 
-const INPUTS = ["app", "components", "lib", "db", "public", "fonts", "package-lock.json", "next.config.mjs", "tailwind.config.ts", "postcss.config.mjs", "tsconfig.json", "proxy.ts"];
+const INPUTS = ["app", "components", "lib", "db", "public", "fonts", "package-lock.json", "next.config.mjs", "tailwind.config.ts", "postcss.config.mjs", "tsconfig.json", "proxy.ts", "instrumentation.ts"];
 
 function walk(p, out) {
   if (!existsSync(p)) return;
