@@ -12,7 +12,7 @@
 //   BENCH_SECONDS (default 20) per run, BENCH_RUNS (default 3), BENCH_CONNECTIONS (default 64),
 //   BENCH_BATCH_RUNS (default 3), BENCH_ONLY=predict (only health, predict and the batch)
 import { spawnSync } from "node:child_process";
-import { mkdtempSync, rmSync } from "node:fs";
+import { existsSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import autocannon from "autocannon";
@@ -168,6 +168,11 @@ async function main() {
     const med = median(times);
     console.log(`\n${BATCH_SITES.toLocaleString("en")}-site POST /api/v1/predict (JSON in, ${(last.bytes / 1e6).toFixed(1)} MB JSON out, ${last.count} predictions):`);
     console.log(`  runs ${times.map((t) => (t / 1000).toFixed(2)).join(" s, ")} s; median ${(med / 1000).toFixed(2)} s (goal ≤ 3 s: ${med <= 3000 ? "met" : "NOT met"})`);
+  } catch (e) {
+    // what the app server said, before its log is removed with the rest
+    const logFile = path.join(dir, "logs", "web-app.log");
+    if (existsSync(logFile)) console.error(`--- last lines of the web app's log ---\n${readFileSync(logFile, "utf8").split("\n").slice(-60).join("\n")}`);
+    throw e;
   } finally {
     await services.stop();
     rmSync(dir, { recursive: true, force: true });

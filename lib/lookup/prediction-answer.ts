@@ -103,5 +103,5 @@ export function batchItems(predictor: LoadedEditionPredictor, sites: SiteInput[]
     at += encoder.encodeInto(text, bytes.subarray(at)).written;
     offsets[i + 1] = at;
   }
-  return { bytes: bytes.subarray(0, at), offsets };
+  return { bytes: bytes.slice(0, at), offsets }; // a copy of the used part: the working buffer is ~30% larger
 }
