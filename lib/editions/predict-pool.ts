@@ -6,6 +6,7 @@ import { Worker } from "node:worker_threads";
 import { env } from "@/lib/env";
 import { spatialOrder } from "@/lib/geostats/order";
 import { BATCH_TAIL_TEXT, type BatchItems, batchHeadText, batchItems, siteAnswerText } from "@/lib/lookup/prediction-answer";
+import { resultsCsvRows } from "@/lib/lookup/results-csv";
 import type { SiteInput } from "./prediction";
 import type { PoolReply, PoolTask } from "./predict-protocol";
 import type { SourcedPredictor } from "./predictor";
@@ -139,6 +140,25 @@ export class PredictPool {
     return r.text;
   }
 
+  /** Rows of the batch page's results file (lib/lookup/results-csv.ts) for consecutive sites; `notice` goes in the first row's notice column. */
+  async csvRows(predictor: SourcedPredictor, sites: SiteInput[], ids: string[], notice?: string): Promise<string> {
+    const inline = async () => {
+      await new Promise((r) => setTimeout(r, 0)); // let other requests have a turn between chunks
+      return resultsCsvRows(predictor.predictMany(sites), ids, notice);
+    };
+    const slot = this.pick();
+    if (!slot) return inline();
+    let r: TaskReply;
+    try {
+      r = await this.send(slot, predictor, { kind: "csv", sites: packSites(sites), ids, notice }, sites.length);
+    } catch {
+      return inline(); // the thread died: answer here
+    }
+    if (!r.ok) throw r.range ? new RangeError(r.message) : new Error(r.message);
+    if (!("text" in r)) throw new Error("a prediction worker answered results-file rows without text");
+    return r.text;
+  }
+
   /**
    * The batch answer (POST /api/v1/predict) as a stream of UTF-8 JSON: the head, the results in
    * the order sent, the tail. Every site is predicted before this resolves (so a failure is an
@@ -173,15 +193,9 @@ export class PredictPool {
       }
       const slot = this.pick();
       if (!slot) return inline(c, chunkSites, chunkIds);
-      const packed = new Float64Array(3 * (b - a));
-      chunkSites.forEach((s, k) => {
-        packed[3 * k] = s.lat;
-        packed[3 * k + 1] = s.lon;
-        packed[3 * k + 2] = s.elevationM ?? Number.NaN;
-      });
       let r: TaskReply;
       try {
-        r = await this.send(slot, predictor, { kind: "batch", sites: packed, ids: chunkIds }, b - a);
+        r = await this.send(slot, predictor, { kind: "batch", sites: packSites(chunkSites), ids: chunkIds }, b - a);
       } catch {
         return inline(c, chunkSites, chunkIds); // the thread died: answer this chunk here
       }
@@ -202,6 +216,17 @@ export class PredictPool {
     );
     return batchAnswerStream(predictor, answered, order);
   }
+}
+
+/** Sites as the threads take them: lat, lon, elevation (NaN = none) per site. */
+function packSites(sites: SiteInput[]): Float64Array {
+  const packed = new Float64Array(3 * sites.length);
+  sites.forEach((s, k) => {
+    packed[3 * k] = s.lat;
+    packed[3 * k + 1] = s.lon;
+    packed[3 * k + 2] = s.elevationM ?? Number.NaN;
+  });
+  return packed;
 }
 
 /** The batch answer: head, results in the order sent (copied out of the chunks, which were cut in spatial `order`), tail. */

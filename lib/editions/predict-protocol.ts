@@ -14,9 +14,20 @@ export type PoolTask =
       /** lat, lon, elevation (NaN = none) per site. */
       sites: Float64Array;
       ids: string[];
+    }
+  | {
+      id: number;
+      kind: "csv";
+      token: string;
+      source?: EditionSource;
+      /** As for "batch". */
+      sites: Float64Array;
+      ids: string[];
+      /** For the first row's notice column (the first chunk of a results file). */
+      notice?: string;
     };
 
-/** A worker's answer: JSON text of a site, a batch chunk's results (lib/lookup/prediction-answer.ts BatchItems), or what went wrong (`range`: a site was out of range). */
+/** A worker's answer: JSON text of a site or results-file rows (`text`), a batch chunk's results (lib/lookup/prediction-answer.ts BatchItems), or what went wrong (`range`: a site was out of range). */
 export type PoolReply =
   | { ready: true }
   | { id: number; ok: true; text: string }

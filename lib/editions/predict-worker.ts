@@ -4,6 +4,7 @@
 // chunks as JSON text — the same text the main thread writes inline (lib/lookup/prediction-answer.ts).
 import { parentPort } from "node:worker_threads";
 import { batchItems, siteAnswerText } from "../lookup/prediction-answer";
+import { resultsCsvRows } from "../lookup/results-csv";
 import type { SiteInput } from "./prediction";
 import type { PoolReply, PoolTask } from "./predict-protocol";
 import { type LoadedEditionPredictor, predictorFromSource } from "./site-model";
@@ -42,6 +43,10 @@ port.on("message", (task: PoolTask) => {
     const { predictor, names } = predictorFor(task);
     if (task.kind === "site") {
       const reply: PoolReply = { id: task.id, ok: true, text: siteAnswerText(predictor, task.site) };
+      port.postMessage(reply);
+    } else if (task.kind === "csv") {
+      const text = resultsCsvRows(predictor.predictMany(sitesOf(task.sites)), task.ids, task.notice);
+      const reply: PoolReply = { id: task.id, ok: true, text };
       port.postMessage(reply);
     } else {
       const { bytes, offsets } = batchItems(predictor, sitesOf(task.sites), task.ids, names);

@@ -4,6 +4,7 @@ import { forgetEditionPredictors, loadEditionPredictor, type SourcedPredictor } 
 import type { SiteInput } from "@/lib/editions/prediction";
 import { apiPrediction } from "@/lib/lookup/prediction-answer";
 import { batchItemJson } from "@/lib/lookup/batch-json";
+import { resultsCsvRows } from "@/lib/lookup/results-csv";
 import { freshDb } from "../helpers/db";
 import { insertTestEdition, insertTestStations } from "../helpers/edition";
 import { testStations } from "../../shared/test-edition";
@@ -62,6 +63,14 @@ describe("prediction worker threads", () => {
     expect(answer.results.map((r) => r.site.id)).toEqual(ids);
     // kriging in spatial order reuses factorised systems: equal to the plain order to the written precision
     expect(answer.results).toEqual(reference(list, ids));
+  });
+
+  it("write the batch page's results-file rows as the request thread would", async () => {
+    const list = sites(120, 13);
+    const ids = list.map((_, i) => `row-${i}`);
+    const rows = await pool.csvRows(predictor, list, ids, "# synthetic demo data");
+    expect(rows).toBe(resultsCsvRows(predictor.predictMany(list), ids, "# synthetic demo data"));
+    expect(rows.split("\n").filter((l) => l.startsWith("row-")).length).toBe(120);
   });
 
   it("answer inline, the same, when there are no threads", async () => {

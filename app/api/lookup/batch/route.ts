@@ -1,10 +1,11 @@
 import { z } from "zod";
 import { PLAN_ORDER, planLimits } from "@/lib/billing/plans";
+import { predictPool } from "@/lib/editions/predict-pool";
 import { loadEditionPredictor } from "@/lib/editions/predictor";
 import { AppError } from "@/lib/errors";
 import { route } from "@/lib/http/route";
 import { batchNotice } from "@/lib/lookup/batch";
-import { resultsCsvHeader, resultsCsvRows } from "@/lib/lookup/results-csv";
+import { resultsCsvHeader } from "@/lib/lookup/results-csv";
 import { describeRowErrors, parseSitesCsv } from "@/lib/lookup/sites-csv";
 
 // The batch page's upload: the sites file as text, checked whole (row errors by
@@ -12,9 +13,13 @@ import { describeRowErrors, parseSitesCsv } from "@/lib/lookup/sites-csv";
 //   {"type":"start","total":N,"edition":…,"header":"…csv header…"}
 //   {"type":"rows","done":k,"csv":"…rows…"}   (every CHUNK sites, so the page can show progress)
 //   {"type":"end","done":N}
-// The plan's batch size is the limit (lib/billing/plans batchLookupMaxSites).
+// The plan's batch size is the limit (lib/billing/plans batchLookupMaxSites). The rows are
+// computed on the prediction worker threads (lib/editions/predict-pool.ts), a few chunks ahead
+// of what has been sent, so the request thread stays free for other requests.
 
 const CHUNK = 500;
+/** Chunks asked for ahead of the one being sent. */
+const AHEAD = 4;
 
 const input = z.strictObject({
   csv: z.string({ error: "Choose a CSV file of sites." }).min(1, { error: "The file is empty." }).max(3_000_000, { error: "The file is larger than 3 MB." }),
@@ -37,6 +42,24 @@ export const POST = route({ auth: { plans: BATCH_PLANS }, body: input, maxBodyBy
   const predictor = await loadEditionPredictor(body.edition || undefined);
   const enc = new TextEncoder();
   const line = (o: unknown) => enc.encode(`${JSON.stringify(o)}\n`);
+  const pool = predictPool();
+  const asked: Promise<string>[] = [];
+  let next = 0;
+  let cancelled = false;
+  const askAhead = () => {
+    while (!cancelled && next < sites.length && asked.length < AHEAD) {
+      const part = sites.slice(next, next + CHUNK);
+      const rows = pool.csvRows(
+        predictor,
+        part.map((s) => ({ lat: s.lat, lon: s.lon, elevationM: s.elevationM })),
+        part.map((s) => s.id),
+        next === 0 ? batchNotice(predictor.edition) : undefined,
+      );
+      rows.catch(() => {}); // awaited in order by pull(); avoid an unhandled rejection meanwhile
+      asked.push(rows);
+      next += part.length;
+    }
+  };
   let done = 0;
   const stream = new ReadableStream<Uint8Array>({
     start(controller) {
@@ -48,12 +71,14 @@ export const POST = route({ auth: { plans: BATCH_PLANS }, body: input, maxBodyBy
         controller.close();
         return;
       }
-      const part = sites.slice(done, done + CHUNK);
-      const preds = predictor.predictMany(part.map((s) => ({ lat: s.lat, lon: s.lon, elevationM: s.elevationM })));
-      const csv = resultsCsvRows(preds, part.map((s) => s.id), done === 0 ? batchNotice(predictor.edition) : undefined);
-      done += part.length;
+      askAhead();
+      const csv = await asked.shift()!;
+      done = Math.min(sites.length, done + CHUNK);
       controller.enqueue(line({ type: "rows", done, csv }));
-      await new Promise((r) => setTimeout(r, 0)); // let other requests in between chunks
+      askAhead();
+    },
+    cancel() {
+      cancelled = true; // the page went away: ask for no more chunks
     },
   });
   return new Response(stream, { headers: { "Content-Type": "application/x-ndjson; charset=utf-8", "Cache-Control": "no-store" } });
