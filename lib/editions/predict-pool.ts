@@ -8,21 +8,21 @@ import { spatialOrder } from "@/lib/geostats/order";
 import { BATCH_TAIL_TEXT, type BatchItems, batchHeadText, batchItems, siteAnswerText } from "@/lib/lookup/prediction-answer";
 import { resultsCsvRows } from "@/lib/lookup/results-csv";
 import type { SiteInput } from "./prediction";
-import type { PoolReply, PoolTask } from "./predict-protocol";
+import { PREDICTORS_KEPT, type PoolReply, type PoolTask } from "./predict-protocol";
 import type { SourcedPredictor } from "./predictor";
 
-// Site lookups of the public API answered on worker threads, so the request thread only does
-// the HTTP work (caller, key, quota, headers) and a 2-core machine uses both cores: a single
-// lookup is one task; a batch is cut into chunks of consecutive sites that the threads answer
-// in parallel while the answer streams out in the order sent. Each thread builds an edition's
-// predictor from the same EditionSource the request thread's cached predictor came from
-// (lib/editions/site-model.ts), and writes the same JSON text (lib/lookup/prediction-answer.ts),
-// so where an answer is computed never changes it.
+// Site lookups answered on worker threads, so the request thread only does the HTTP work
+// (caller, key, quota, headers) and a 2-core machine uses both cores: a single lookup is one
+// task; an API batch is put in spatial order and cut into chunks the threads answer in parallel
+// (batchBody); the batch page's results file is made chunk by chunk (csvRows). Each thread builds
+// an edition's predictor from the same EditionSource the request thread's cached predictor came
+// from (lib/editions/site-model.ts) and writes the same text (lib/lookup/prediction-answer.ts,
+// lib/lookup/results-csv.ts), so where an answer is computed never changes it.
 //
-// Threads start at the first lookup (running the TypeScript sources through tsx, like the
-// kriging grid workers); until they are ready, and with PREDICT_THREADS=0, lookups are answered
-// inline on the request's thread. A thread that dies is replaced; its unfinished tasks are
-// answered inline.
+// Threads start with the server (instrumentation.ts) or at the first lookup, running the
+// TypeScript sources through tsx like the kriging grid workers; until they are ready, and with
+// PREDICT_THREADS=0, lookups are answered inline on the request's thread. A thread that dies is
+// replaced; its unfinished tasks are answered inline.
 
 /** Sites per batch chunk: a chunk takes ~0.1 s, so a single lookup never waits long behind a batch. */
 export const BATCH_CHUNK = 500;
@@ -33,7 +33,8 @@ type TaskReply = Exclude<PoolReply, { ready: true }>;
 
 type Pending = { resolve: (r: TaskReply) => void; reject: (e: Error) => void; cost: number };
 
-type Slot = { worker: Worker; ready: boolean; loaded: Set<string>; pending: Map<number, Pending>; load: number };
+/** `loaded`: the edition builds the thread keeps, least recently used first — the same list the thread keeps, since both see the tasks in the same order. */
+type Slot = { worker: Worker; ready: boolean; loaded: Map<string, true>; pending: Map<number, Pending>; load: number };
 
 function bootstrapPaths(): { bootstrap: string; entry: string } | null {
   const root = process.cwd();
@@ -57,7 +58,7 @@ export class PredictPool {
     const paths = this.paths!;
     const worker = new Worker(paths.bootstrap, { workerData: { entryPath: paths.entry }, execArgv: [] });
     worker.unref();
-    const slot: Slot = { worker, ready: false, loaded: new Set(), pending: new Map(), load: 0 };
+    const slot: Slot = { worker, ready: false, loaded: new Map(), pending: new Map(), load: 0 };
     this.slots[i] = slot;
     worker.on("message", (m: PoolReply) => {
       if ("ready" in m) {
@@ -114,10 +115,9 @@ export class PredictPool {
   private send(slot: Slot, predictor: SourcedPredictor, task: Omit<PoolTask, "id" | "token" | "source"> & Partial<PoolTask>, cost: number): Promise<TaskReply> {
     const id = this.nextId++;
     const full = { ...task, id, token: predictor.token } as PoolTask;
-    if (!slot.loaded.has(predictor.token)) {
-      full.source = predictor.source;
-      slot.loaded.add(predictor.token);
-    }
+    if (!slot.loaded.delete(predictor.token)) full.source = predictor.source;
+    slot.loaded.set(predictor.token, true);
+    while (slot.loaded.size > PREDICTORS_KEPT) slot.loaded.delete(slot.loaded.keys().next().value as string);
     return new Promise((resolve, reject) => {
       slot.pending.set(id, { resolve, reject, cost });
       slot.load += cost;

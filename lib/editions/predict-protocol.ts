@@ -3,6 +3,9 @@ import type { EditionSource } from "./site-model";
 
 // Messages between lib/editions/predict-pool.ts and its worker threads (lib/editions/predict-worker.ts).
 
+/** Edition predictors a thread keeps (least recently used dropped); the pool mirrors the list to know when to send a source again. */
+export const PREDICTORS_KEPT = 4;
+
 /** A task; `source` comes with a worker's first task for an edition build (`token`). */
 export type PoolTask =
   | { id: number; kind: "site"; token: string; source?: EditionSource; site: SiteInput }

@@ -6,11 +6,10 @@ import { parentPort } from "node:worker_threads";
 import { batchItems, siteAnswerText } from "../lookup/prediction-answer";
 import { resultsCsvRows } from "../lookup/results-csv";
 import type { SiteInput } from "./prediction";
-import type { PoolReply, PoolTask } from "./predict-protocol";
+import { PREDICTORS_KEPT, type PoolReply, type PoolTask } from "./predict-protocol";
 import { type LoadedEditionPredictor, predictorFromSource } from "./site-model";
 
-/** Predictors kept per edition build token (most recently used last). */
-const KEEP = 4;
+/** Predictors per edition build token (most recently used last; the pool keeps the same list). */
 const predictors = new Map<string, { predictor: LoadedEditionPredictor; names: Map<string, string> }>();
 
 function predictorFor(task: PoolTask): { predictor: LoadedEditionPredictor; names: Map<string, string> } {
@@ -21,7 +20,7 @@ function predictorFor(task: PoolTask): { predictor: LoadedEditionPredictor; name
   if (!hit) throw new Error(`edition build ${task.token} was never sent to this worker`);
   predictors.delete(task.token);
   predictors.set(task.token, hit);
-  while (predictors.size > KEEP) predictors.delete(predictors.keys().next().value as string);
+  while (predictors.size > PREDICTORS_KEPT) predictors.delete(predictors.keys().next().value as string);
   return hit;
 }
 

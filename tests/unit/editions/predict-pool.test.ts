@@ -1,5 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { BATCH_CHUNK, PredictPool } from "@/lib/editions/predict-pool";
+import { PREDICTORS_KEPT } from "@/lib/editions/predict-protocol";
 import { forgetEditionPredictors, loadEditionPredictor, type SourcedPredictor } from "@/lib/editions/predictor";
 import type { SiteInput } from "@/lib/editions/prediction";
 import { apiPrediction } from "@/lib/lookup/prediction-answer";
@@ -71,6 +72,17 @@ describe("prediction worker threads", () => {
     const rows = await pool.csvRows(predictor, list, ids, "# synthetic demo data");
     expect(rows).toBe(resultsCsvRows(predictor.predictMany(list), ids, "# synthetic demo data"));
     expect(rows.split("\n").filter((l) => l.startsWith("row-")).length).toBe(120);
+  });
+
+  it("send an edition again to a thread that has let it go (a thread keeps PREDICTORS_KEPT editions)", async () => {
+    const single = new PredictPool(1);
+    await single.whenReady();
+    // the same models under PREDICTORS_KEPT + 2 build tokens, as if that many editions were asked for in turn
+    const builds = Array.from({ length: PREDICTORS_KEPT + 2 }, (_, i) => Object.create(predictor, { token: { value: `${predictor.token}/copy-${i}` } }) as SourcedPredictor);
+    const site = sites(1, 21)[0];
+    const expected = JSON.stringify(apiPrediction(predictor.predict(site), predictor));
+    for (const b of [...builds, builds[0], builds[1]]) expect(await single.siteText(b, site)).toBe(expected);
+    await single.close();
   });
 
   it("answer inline, the same, when there are no threads", async () => {
