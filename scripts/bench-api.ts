@@ -9,7 +9,7 @@
 // The edition: the database's own when the editions build made one, else the test fixture
 // edition written from the seeded stations (tests/shared/fixture-edition-db.ts).
 //
-//   BENCH_SECONDS (default 20) per run, BENCH_RUNS (default 3), BENCH_CONNECTIONS (default 64),
+//   BENCH_SECONDS (default 20) per run, BENCH_WARMUP_SECONDS (default 5), BENCH_RUNS (default 3), BENCH_CONNECTIONS (default 64),
 //   BENCH_BATCH_RUNS (default 3), BENCH_ONLY=predict (only health, predict and the batch)
 import { spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
@@ -25,6 +25,7 @@ import { ensureBuild } from "./lib/build.mjs";
 import { freePort, localEnv, serviceSpecs, startProcesses } from "./lib/services.mjs";
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 20);
+const WARMUP_SECONDS = Number(process.env.BENCH_WARMUP_SECONDS ?? 5);
 const BATCH_RUNS = Number(process.env.BENCH_BATCH_RUNS ?? 3);
 const BATCH_SITES = 10_000;
 const RUNS = Number(process.env.BENCH_RUNS ?? 3);
@@ -107,8 +108,9 @@ async function main() {
   try {
     console.log(`\nbench:api — ${CONNECTIONS} connections, ${SECONDS} s per run, median of ${RUNS} runs (os.cpus: ${os.cpus().length})\n`);
     let k = 0;
-    // Warm up every route once (first-request compilation of server chunks, lazy caches).
-    for (const t of TARGETS) await load(`${base}${t.path}`, t.withKey ? { authorization: `Bearer ${keys[k]}` } : {}, 2, t.paths);
+    // Warm up every route (first-request compilation of server chunks, lazy caches, the JIT of the
+    // request thread and of the prediction threads), BENCH_WARMUP_SECONDS (default 5) each.
+    for (const t of TARGETS) await load(`${base}${t.path}`, t.withKey ? { authorization: `Bearer ${keys[k]}` } : {}, WARMUP_SECONDS, t.paths);
     k++;
     const rows: { name: string; r: Result }[] = [];
     for (const t of TARGETS) {

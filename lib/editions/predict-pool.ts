@@ -34,7 +34,7 @@ type TaskReply = Exclude<PoolReply, { ready: true }>;
 type Pending = { resolve: (r: TaskReply) => void; reject: (e: Error) => void; cost: number };
 
 /** `loaded`: the edition builds the thread keeps, least recently used first — the same list the thread keeps, since both see the tasks in the same order. */
-type Slot = { worker: Worker; ready: boolean; loaded: Map<string, true>; pending: Map<number, Pending>; load: number };
+type Slot = { worker: Worker; ready: boolean; loaded: Map<string, true>; pending: Map<number, Pending>; load: number; outbox: PoolTask[] };
 
 function bootstrapPaths(): { bootstrap: string; entry: string } | null {
   const root = process.cwd();
@@ -58,18 +58,20 @@ export class PredictPool {
     const paths = this.paths!;
     const worker = new Worker(paths.bootstrap, { workerData: { entryPath: paths.entry }, execArgv: [] });
     worker.unref();
-    const slot: Slot = { worker, ready: false, loaded: new Map(), pending: new Map(), load: 0 };
+    const slot: Slot = { worker, ready: false, loaded: new Map(), pending: new Map(), load: 0, outbox: [] };
     this.slots[i] = slot;
-    worker.on("message", (m: PoolReply) => {
-      if ("ready" in m) {
-        slot.ready = true;
-        return;
+    worker.on("message", (m: PoolReply | PoolReply[]) => {
+      for (const r of Array.isArray(m) ? m : [m]) {
+        if ("ready" in r) {
+          slot.ready = true;
+          continue;
+        }
+        const p = slot.pending.get(r.id);
+        if (!p) continue;
+        slot.pending.delete(r.id);
+        slot.load -= p.cost;
+        p.resolve(r);
       }
-      const p = slot.pending.get(m.id);
-      if (!p) return;
-      slot.pending.delete(m.id);
-      slot.load -= p.cost;
-      p.resolve(m);
     });
     const fail = (e: Error) => {
       if (this.slots[i] !== slot) return;
@@ -121,7 +123,13 @@ export class PredictPool {
     return new Promise((resolve, reject) => {
       slot.pending.set(id, { resolve, reject, cost });
       slot.load += cost;
-      slot.worker.postMessage(full);
+      // tasks gathered during this turn of the event loop go in one message (a message costs ~0.1 ms)
+      if (slot.outbox.push(full) === 1)
+        setImmediate(() => {
+          const tasks = slot.outbox.splice(0);
+          if (this.slots.includes(slot)) slot.worker.postMessage(tasks);
+          else for (const t of tasks) slot.pending.get(t.id)?.reject(new Error("the prediction worker stopped"));
+        });
     });
   }
 

@@ -1,7 +1,8 @@
 import type { SiteInput } from "./prediction";
 import type { EditionSource } from "./site-model";
 
-// Messages between lib/editions/predict-pool.ts and its worker threads (lib/editions/predict-worker.ts).
+// Messages between lib/editions/predict-pool.ts and its worker threads (lib/editions/predict-worker.ts):
+// tasks go to a thread in arrays, answers come back in arrays (the thread announces itself with one { ready }).
 
 /** Edition predictors a thread keeps (least recently used dropped); the pool mirrors the list to know when to send a source again. */
 export const PREDICTORS_KEPT = 4;

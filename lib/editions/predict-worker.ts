@@ -37,25 +37,37 @@ function sitesOf(packed: Float64Array): SiteInput[] {
 const port = parentPort;
 if (!port) throw new Error("predict-worker.ts runs as a worker thread");
 
-port.on("message", (task: PoolTask) => {
+/** One task's answer, and the buffers to transfer with it. */
+function answer(task: PoolTask): { reply: PoolReply; transfer: ArrayBuffer[] } {
   try {
     const { predictor, names } = predictorFor(task);
-    if (task.kind === "site") {
-      const reply: PoolReply = { id: task.id, ok: true, text: siteAnswerText(predictor, task.site) };
-      port.postMessage(reply);
-    } else if (task.kind === "csv") {
-      const text = resultsCsvRows(predictor.predictMany(sitesOf(task.sites)), task.ids, task.notice);
-      const reply: PoolReply = { id: task.id, ok: true, text };
-      port.postMessage(reply);
-    } else {
-      const { bytes, offsets } = batchItems(predictor, sitesOf(task.sites), task.ids, names);
-      const reply: PoolReply = { id: task.id, ok: true, bytes, offsets };
-      port.postMessage(reply, [bytes.buffer as ArrayBuffer, offsets.buffer as ArrayBuffer]);
-    }
+    if (task.kind === "site") return { reply: { id: task.id, ok: true, text: siteAnswerText(predictor, task.site) }, transfer: [] };
+    if (task.kind === "csv") return { reply: { id: task.id, ok: true, text: resultsCsvRows(predictor.predictMany(sitesOf(task.sites)), task.ids, task.notice) }, transfer: [] };
+    const { bytes, offsets } = batchItems(predictor, sitesOf(task.sites), task.ids, names);
+    return { reply: { id: task.id, ok: true, bytes, offsets }, transfer: [bytes.buffer as ArrayBuffer, offsets.buffer as ArrayBuffer] };
   } catch (e) {
-    const reply: PoolReply = { id: task.id, ok: false, message: e instanceof Error ? e.message : String(e), range: e instanceof RangeError };
-    port.postMessage(reply);
+    return { reply: { id: task.id, ok: false, message: e instanceof Error ? e.message : String(e), range: e instanceof RangeError }, transfer: [] };
   }
+}
+
+// Tasks come in arrays (the pool sends what gathered during one turn of its event loop) and
+// answers go back in arrays: one message each way for many single-site lookups. Answers so far
+// are sent before a chunk of many sites is started, so single lookups never wait for it.
+port.on("message", (tasks: PoolTask[]) => {
+  let replies: PoolReply[] = [];
+  let transfer: ArrayBuffer[] = [];
+  const flush = () => {
+    if (replies.length) port.postMessage(replies, transfer);
+    replies = [];
+    transfer = [];
+  };
+  for (const task of tasks) {
+    if (task.kind !== "site") flush();
+    const a = answer(task);
+    replies.push(a.reply);
+    transfer.push(...a.transfer);
+  }
+  flush();
 });
 
 port.postMessage({ ready: true } satisfies PoolReply);
