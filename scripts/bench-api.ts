@@ -10,7 +10,7 @@
 // edition written from the seeded stations (tests/shared/fixture-edition-db.ts).
 //
 //   BENCH_SECONDS (default 20) per run, BENCH_WARMUP_SECONDS (default 5), BENCH_RUNS (default 3), BENCH_CONNECTIONS (default 64),
-//   BENCH_BATCH_RUNS (default 3), BENCH_ONLY=predict (only health, predict and the batch)
+//   BENCH_LIGHT_CONNECTIONS (default 4), BENCH_BATCH_RUNS (default 3), BENCH_ONLY=predict (only health, predict and the batch)
 import { spawnSync } from "node:child_process";
 import { existsSync, mkdtempSync, readFileSync, rmSync } from "node:fs";
 import os from "node:os";
