@@ -133,38 +133,32 @@ export class PredictPool {
     });
   }
 
-  /** The single-site answer (GET /api/v1/predict) as JSON text. */
-  async siteText(predictor: SourcedPredictor, site: SiteInput): Promise<string> {
-    const slot = this.pick();
-    if (!slot) return siteAnswerText(predictor, site);
-    let r: TaskReply;
-    try {
-      r = await this.send(slot, predictor, { kind: "site", site }, 1);
-    } catch {
-      return siteAnswerText(predictor, site); // the thread died: answer here
-    }
-    if (!r.ok) throw r.range ? new RangeError(r.message) : new Error(r.message);
-    if (!("text" in r)) throw new Error("a prediction worker answered a site lookup without text");
-    return r.text;
-  }
-
-  /** Rows of the batch page's results file (lib/lookup/results-csv.ts) for consecutive sites; `notice` goes in the first row's notice column. */
-  async csvRows(predictor: SourcedPredictor, sites: SiteInput[], ids: string[], notice?: string): Promise<string> {
-    const inline = async () => {
-      await new Promise((r) => setTimeout(r, 0)); // let other requests have a turn between chunks
-      return resultsCsvRows(predictor.predictMany(sites), ids, notice);
-    };
+  /** A task answered with text, or by `inline` when no thread is ready or the thread dies on it. */
+  private async textTask(predictor: SourcedPredictor, task: { kind: "site" | "csv" } & Partial<PoolTask>, cost: number, inline: () => string | Promise<string>): Promise<string> {
     const slot = this.pick();
     if (!slot) return inline();
     let r: TaskReply;
     try {
-      r = await this.send(slot, predictor, { kind: "csv", sites: packSites(sites), ids, notice }, sites.length);
+      r = await this.send(slot, predictor, task, cost);
     } catch {
       return inline(); // the thread died: answer here
     }
-    if (!r.ok) throw r.range ? new RangeError(r.message) : new Error(r.message);
-    if (!("text" in r)) throw new Error("a prediction worker answered results-file rows without text");
+    if (!r.ok) throw new Error(r.message);
+    if (!("text" in r)) throw new Error(`a prediction worker answered a ${task.kind} task without text`);
     return r.text;
+  }
+
+  /** The single-site answer (GET /api/v1/predict) as JSON text. */
+  siteText(predictor: SourcedPredictor, site: SiteInput): Promise<string> {
+    return this.textTask(predictor, { kind: "site", site }, 1, () => siteAnswerText(predictor, site));
+  }
+
+  /** Rows of the batch page's results file (lib/lookup/results-csv.ts) for consecutive sites; `notice` goes in the first row's notice column. */
+  csvRows(predictor: SourcedPredictor, sites: SiteInput[], ids: string[], notice?: string): Promise<string> {
+    return this.textTask(predictor, { kind: "csv", sites: packSites(sites), ids, notice }, sites.length, async () => {
+      await new Promise((r) => setTimeout(r, 0)); // let other requests have a turn between chunks
+      return resultsCsvRows(predictor.predictMany(sites), ids, notice);
+    });
   }
 
   /**
@@ -207,7 +201,7 @@ export class PredictPool {
       } catch {
         return inline(c, chunkSites, chunkIds); // the thread died: answer this chunk here
       }
-      if (!r.ok) throw r.range ? new RangeError(r.message) : new Error(r.message);
+      if (!r.ok) throw new Error(r.message);
       if (!("offsets" in r)) throw new Error("a prediction worker answered a batch chunk without results");
       answered[c] = { bytes: r.bytes, offsets: r.offsets };
     };

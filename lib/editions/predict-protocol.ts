@@ -31,9 +31,9 @@ export type PoolTask =
       notice?: string;
     };
 
-/** A worker's answer: JSON text of a site or results-file rows (`text`), a batch chunk's results (lib/lookup/prediction-answer.ts BatchItems), or what went wrong (`range`: a site was out of range). */
+/** A worker's answer: JSON text of a site or results-file rows (`text`), a batch chunk's results (lib/lookup/prediction-answer.ts BatchItems), or what went wrong. */
 export type PoolReply =
   | { ready: true }
   | { id: number; ok: true; text: string }
   | { id: number; ok: true; bytes: Uint8Array; offsets: Uint32Array }
-  | { id: number; ok: false; message: string; range: boolean };
+  | { id: number; ok: false; message: string };

@@ -46,7 +46,7 @@ function answer(task: PoolTask): { reply: PoolReply; transfer: ArrayBuffer[] } {
     const { bytes, offsets } = batchItems(predictor, sitesOf(task.sites), task.ids, names);
     return { reply: { id: task.id, ok: true, bytes, offsets }, transfer: [bytes.buffer as ArrayBuffer, offsets.buffer as ArrayBuffer] };
   } catch (e) {
-    return { reply: { id: task.id, ok: false, message: e instanceof Error ? e.message : String(e), range: e instanceof RangeError }, transfer: [] };
+    return { reply: { id: task.id, ok: false, message: e instanceof Error ? e.message : String(e) }, transfer: [] };
   }
 }
 

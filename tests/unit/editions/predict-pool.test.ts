@@ -54,6 +54,13 @@ describe("prediction worker threads", () => {
     }
   });
 
+  it("turn a thread's failure into an error for the caller, not a hang (the predictor's own range check)", async () => {
+    await expect(pool.siteText(predictor, { lat: 95, lon: 0, elevationM: null })).rejects.toThrow(/Latitude must be a number from −90 to 90/);
+    // the thread is still there for the next lookup
+    const site = sites(1, 4)[0];
+    expect(await pool.siteText(predictor, site)).toBe(JSON.stringify(apiPrediction(predictor.predict(site), predictor)));
+  });
+
   it("answer a batch of several chunks with every result in the order sent, equal to the plain computation", async () => {
     const list = sites(2 * BATCH_CHUNK + 137);
     const ids = list.map((_, i) => `site-${i}`);
