@@ -6,7 +6,7 @@ import { loadEditionPredictor } from "@/lib/editions/predictor";
 import { AppError } from "@/lib/errors";
 import { CoordinateError, parseCoordinate, parseElevation } from "@/lib/lookup/coordinates";
 import { BATCH_STATIONS, batchItemJson, writeBatchItem } from "@/lib/lookup/batch-json";
-import { apiPrediction } from "@/lib/lookup/prediction-answer";
+import { apiPrediction as writeApiPrediction } from "@/lib/lookup/prediction-answer";
 import { describeRowErrors, parseSitesCsv } from "@/lib/lookup/sites-csv";
 import { defineEndpoint, JsonText } from "../endpoint";
 
@@ -157,7 +157,10 @@ export const sitePredictionSchema = z
   })
   .meta({ id: "SitePrediction" });
 
-export { apiPrediction, BATCH_STATIONS, batchItemJson, writeBatchItem };
+export { BATCH_STATIONS, batchItemJson, writeBatchItem };
+
+/** A prediction as the API answers it (lib/lookup/prediction-answer.ts); typed here so the compiler holds it to the documented schema. */
+export const apiPrediction: (...args: Parameters<typeof writeApiPrediction>) => z.output<typeof sitePredictionSchema> = writeApiPrediction;
 
 export const batchSitePredictionSchema = sitePredictionSchema
   .omit({ citation: true, synthetic: true, notice: true })
@@ -245,7 +248,7 @@ export const predictBatch = defineEndpoint({
     await loadEditionPredictor(body.edition);
   },
   async handler({ req, body }) {
-    // chunks of sites answered in parallel on the prediction worker threads, streamed in the order sent
+    // the sites in spatial order, answered in chunks in parallel on the prediction threads, written back in the order sent
     const predictor = await loadEditionPredictor(body.edition);
     const sites = body.sites.map((s) => ({ lat: s.lat, lon: s.lon, elevationM: s.elevation ?? null }));
     const ids = body.sites.map((s, i) => String(s.id ?? i + 1));
